@@ -1,0 +1,118 @@
+// Builds the Express application from its dependencies; listening is index.ts's job, so tests
+// can drive the same app in-process.
+import connectPgSimple from 'connect-pg-simple';
+import express, { type Express } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import type { Knex } from 'knex';
+import pg from 'pg';
+import type { Logger } from 'pino';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { Config } from './config/env';
+import { sameOriginGuard } from './lib/csrf';
+import { apiNotFound, errorHandler } from './lib/error-handler';
+import { httpLogger } from './lib/logger';
+import type { ApiRouter, RouteInfo } from './lib/routes';
+import { adminRoutes } from './modules/admin/admin.routes';
+import { createAdminService } from './modules/admin/admin.service';
+import { authRoutes, configurePassport } from './modules/auth/auth.routes';
+import { createAuthService } from './modules/auth/auth.service';
+import { calculatorRoutes } from './modules/calculators/calculators.routes';
+import { healthRoutes } from './modules/health/health.routes';
+
+export interface AppDeps {
+  db: Knex;
+  config: Config;
+  logger: Logger;
+  version?: string;
+  /** Folder of the built client; served with a single-page fallback when it exists. */
+  clientDir?: string | null;
+}
+
+export interface BeadpathApp extends Express {
+  locals: Express['locals'] & { routeTable: RouteInfo[]; close: () => Promise<void> };
+}
+
+export const defaultClientDir = fileURLToPath(new URL('../dist', import.meta.url));
+
+export function createApp(deps: AppDeps): BeadpathApp {
+  const { db, config, logger } = deps;
+  const app = express() as unknown as BeadpathApp;
+  app.disable('x-powered-by');
+  app.set('trust proxy', config.TRUST_PROXY ? 1 : false);
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'default-src': ["'self'"],
+          'script-src': ["'self'"],
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'font-src': ["'self'", 'data:'],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'connect-src': ["'self'"],
+          'upgrade-insecure-requests': null,
+        },
+      },
+    }),
+  );
+  app.use(httpLogger(logger));
+
+  const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 4 });
+  sessionPool.on('error', (err) => logger.warn({ err }, 'session store connection lost'));
+  const PgStore = connectPgSimple(session);
+  const store = new PgStore({ pool: sessionPool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60, errorLog: (...args: unknown[]) => logger.warn({ detail: args.map(String).join(' ') }, 'session store error') });
+
+  const auth = createAuthService(db);
+  const passport = configurePassport(auth);
+  const api = express.Router();
+  api.use(express.json({ limit: config.JSON_BODY_LIMIT }));
+  api.use(sameOriginGuard(config.PUBLIC_ORIGIN));
+  api.use(
+    session({
+      name: 'beadpath.sid',
+      secret: config.SESSION_SECRET,
+      store,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 7 * 24 * 3600 * 1000 },
+    }),
+  );
+  api.use(passport.initialize());
+  api.use(passport.session());
+
+  // Health answers before sessions are read, so it reports the database even when sessions cannot load.
+  const health = healthRoutes({ db, version: deps.version ?? 'dev' });
+  app.use(health.base, health.router);
+  const routers: ApiRouter[] = [
+    health,
+    authRoutes({ auth, passport, loginLimit: config.LOGIN_RATE_LIMIT }),
+    adminRoutes({ admin: createAdminService(db) }),
+    calculatorRoutes(),
+  ];
+  app.use('/api', api);
+  for (const r of routers) if (r !== health) app.use(r.base, r.router);
+  app.use('/api', apiNotFound);
+  app.use('/api', errorHandler);
+
+  const clientDir = deps.clientDir === undefined ? defaultClientDir : deps.clientDir;
+  if (clientDir && existsSync(join(clientDir, 'index.html'))) {
+    app.use('/assets', express.static(join(clientDir, 'assets'), { immutable: true, maxAge: '365d', index: false }));
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    app.get('/{*splat}', (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(join(clientDir, 'index.html'));
+    });
+  }
+
+  app.locals.routeTable = routers.flatMap((r) => r.routes);
+  app.locals.close = async () => {
+    await new Promise<void>((resolve) => store.close ? (store.close(), resolve()) : resolve());
+    await sessionPool.end().catch(() => {});
+  };
+  return app;
+}

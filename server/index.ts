@@ -1,0 +1,67 @@
+// Production entry point: config -> database -> listen -> graceful shutdown.
+import { createServer } from 'node:http';
+import { readFileSync } from 'node:fs';
+import { createApp } from './app';
+import { loadConfig, ConfigError } from './config/env';
+import { createDb, migrateLatest } from './db/knex';
+import { createLogger } from './lib/logger';
+
+export async function startServer(env: NodeJS.ProcessEnv = process.env) {
+  const config = loadConfig(env);
+  const logger = createLogger(config.LOG_LEVEL);
+  const db = createDb(config.DATABASE_URL, { log: { warn: (m) => logger.warn(m) } });
+  await migrateLatest(db);
+  const version = JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')).version as string;
+
+  let clientDir: string | null | undefined;
+  let vite: { middlewares: import('express').RequestHandler; close(): Promise<void> } | null = null;
+  if (config.NODE_ENV === 'development') clientDir = null;
+  const app = createApp({ db, config, logger, version, clientDir });
+  if (config.NODE_ENV === 'development') {
+    // Vite serves the client with hot reload in development; imported only here.
+    const { createServer: createVite } = await import('vite');
+    const v = await createVite({ server: { middlewareMode: true }, appType: 'spa' });
+    vite = v;
+    app.use(v.middlewares);
+  }
+
+  const server = createServer(app);
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(config.PORT, config.HOST, () => resolve());
+  });
+  const address = server.address();
+  const port = typeof address === 'object' && address ? address.port : config.PORT;
+  logger.info({ port }, 'Beadpath listening');
+
+  let stopping = false;
+  async function shutdown(signal: string) {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, 'shutting down: finishing open requests');
+    const timer = setTimeout(() => {
+      logger.warn('open requests did not finish in 10 s; closing anyway');
+      server.closeAllConnections();
+    }, 10_000);
+    server.closeIdleConnections();
+    await new Promise<void>((resolve) => server.close(() => resolve()));
+    clearTimeout(timer);
+    await vite?.close();
+    await app.locals.close();
+    await db.destroy();
+    logger.info('stopped');
+  }
+  return { server, port, config, shutdown, logger };
+}
+
+const isMain = import.meta.url === `file://${process.argv[1]}`;
+if (isMain) {
+  startServer()
+    .then(({ shutdown }) => {
+      for (const sig of ['SIGINT', 'SIGTERM'] as const) process.once(sig, () => void shutdown(sig).then(() => process.exit(0)));
+    })
+    .catch((err) => {
+      console.error(err instanceof ConfigError ? err.message : err);
+      process.exit(1);
+    });
+}

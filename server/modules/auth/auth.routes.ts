@@ -1,0 +1,109 @@
+// /api/auth: sign in and out, who am I, own password and preferences, accepting an invitation.
+import type { NextFunction, Request, Response } from 'express';
+import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import passport from 'passport';
+import { Strategy as LocalStrategy } from 'passport-local';
+import { z } from 'zod';
+import { PERMISSIONS, can, type Permission } from '../../../src/shared/permissions';
+import {
+  AcceptInviteInput,
+  ChangePasswordInput,
+  LoginInput,
+  UpdateProfileInput,
+  type SessionUser,
+} from '../../../src/shared/schemas/auth';
+import { AppError } from '../../lib/app-error';
+import { ApiRouter } from '../../lib/routes';
+import { validate } from '../../lib/validate';
+import type { AuthService } from './auth.service';
+
+export function configurePassport(auth: AuthService) {
+  const p = new passport.Passport();
+  p.use(
+    new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
+      auth.authenticate(email, password).then((u) => done(null, u ?? false), done);
+    }),
+  );
+  p.serializeUser((user, done) => done(null, (user as SessionUser).id));
+  // Read on every request, so a deactivated user or a changed role takes effect at once.
+  p.deserializeUser((id: number, done) => {
+    auth.loadSessionUser(Number(id)).then((u) => done(null, u ?? false), done);
+  });
+  return p;
+}
+
+export function mePayload(user: SessionUser) {
+  const permissions = (Object.keys(PERMISSIONS) as Permission[]).filter((p) => can(user.roles, p));
+  return { user, permissions };
+}
+
+function signIn(req: Request, user: SessionUser): Promise<void> {
+  // passport's login regenerates the session id, so a fixed id from before sign-in is useless.
+  return new Promise((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
+}
+
+export function authRoutes(deps: { auth: AuthService; passport: passport.Authenticator; loginLimit: number }) {
+  const r = new ApiRouter('/api/auth');
+
+  const loginLimiter = rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit: deps.loginLimit,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').toLowerCase()}`,
+    handler: (_req, _res, next) =>
+      next(new AppError('rate_limited', 'Too many failed sign-ins for this e-mail. Wait 15 minutes and try again.')),
+  });
+
+  r.post('/login', 'public', loginLimiter, validate('body', LoginInput), (req: Request, res: Response, next: NextFunction) => {
+    req.body = res.locals.body;
+    deps.passport.authenticate('local', (err: unknown, user: SessionUser | false) => {
+      if (err) return next(err);
+      if (!user) return next(AppError.unauthenticated('E-mail or password is not correct'));
+      signIn(req, user)
+        .then(() => res.json(mePayload(user)))
+        .catch(next);
+    })(req, res, next);
+  });
+
+  r.post('/logout', 'public', (req, res, next) => {
+    req.logout((err) => {
+      if (err) return next(err);
+      req.session.destroy((e) => {
+        if (e) return next(e);
+        res.clearCookie('beadpath.sid');
+        res.status(204).end();
+      });
+    });
+  });
+
+  // Public so that the client can ask "am I signed in?" without a failed request in the console.
+  r.get('/me', 'public', (req, res) => {
+    res.json(req.user ? mePayload(req.user) : { user: null, permissions: [] });
+  });
+
+  r.patch('/me', 'signedIn', validate('body', UpdateProfileInput), async (req, res) => {
+    const user = await deps.auth.updateProfile(req.user!.id, res.locals.body);
+    res.json(mePayload(user));
+  });
+
+  r.post('/password', 'signedIn', validate('body', ChangePasswordInput), async (req, res) => {
+    const { currentPassword, newPassword } = res.locals.body as z.output<typeof ChangePasswordInput>;
+    await deps.auth.changePassword(req.user!.id, currentPassword, newPassword, req.sessionID);
+    res.status(204).end();
+  });
+
+  r.get('/invite/:token', 'public', validate('params', z.object({ token: z.string().min(20).max(200) })), async (_req, res) => {
+    res.json(await deps.auth.inviteInfo(res.locals.params.token));
+  });
+
+  r.post('/invite/accept', 'public', validate('body', AcceptInviteInput), async (req, res) => {
+    const { token, password } = res.locals.body as z.output<typeof AcceptInviteInput>;
+    const user = await deps.auth.acceptInvite(token, password);
+    await signIn(req, user);
+    res.json(mePayload(user));
+  });
+
+  return r;
+}

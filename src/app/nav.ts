@@ -1,0 +1,17 @@
+// The navigation entries and who sees them (read from the permission table).
+import type { Permission } from '@/shared/permissions';
+import { paths } from '@/lib/paths';
+import { Icon } from '@/components/ui/icons';
+
+export interface NavItem {
+  to: string;
+  label: string;
+  icon: (typeof Icon)[keyof typeof Icon];
+  permission?: Permission;
+}
+
+export const NAV: NavItem[] = [
+  { to: paths.home, label: 'Home', icon: Icon.home },
+  { to: paths.calculators, label: 'Calculators', icon: Icon.calculator, permission: 'calculators:use' },
+  { to: paths.adminUsers, label: 'Users', icon: Icon.users, permission: 'users:manage' },
+];

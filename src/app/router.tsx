@@ -1,0 +1,35 @@
+// All routes: public sign-in and invitation pages, and the signed-in app.
+import { createBrowserRouter } from 'react-router';
+import { paths } from '@/lib/paths';
+import { AppLayout } from '@/components/layouts/app-layout';
+import { NotFoundPage, RouteError } from '@/components/errors/route-error';
+import { SignInPage } from '@/features/auth/components/sign-in-page';
+import { InvitePage } from '@/features/auth/components/invite-page';
+import { AccountPage } from '@/features/auth/components/account-page';
+import { UsersPage } from '@/features/admin/components/users-page';
+import { CalculatorListPage } from '@/features/calculators/components/calculator-list-page';
+import { CalculatorPage } from '@/features/calculators/components/calculator-page';
+import { HomeRoute } from './routes/home';
+import { RequirePermission } from './require-permission';
+
+export const router = createBrowserRouter([
+  { path: paths.signIn, element: <SignInPage />, errorElement: <RouteError /> },
+  { path: paths.invite(), element: <InvitePage />, errorElement: <RouteError /> },
+  {
+    element: <AppLayout />,
+    errorElement: <RouteError />,
+    children: [
+      {
+        errorElement: <RouteError />,
+        children: [
+          { index: true, element: <HomeRoute /> },
+          { path: paths.account, element: <AccountPage /> },
+          { path: paths.calculators, element: <RequirePermission permission="calculators:use"><CalculatorListPage /></RequirePermission> },
+          { path: paths.calculator(), element: <RequirePermission permission="calculators:use"><CalculatorPage /></RequirePermission> },
+          { path: paths.adminUsers, element: <RequirePermission permission="users:manage"><UsersPage /></RequirePermission> },
+          { path: '*', element: <NotFoundPage /> },
+        ],
+      },
+    ],
+  },
+]);

@@ -1,0 +1,56 @@
+// Home: what each role does next. Composes features; each role's home grows as features land.
+import { useState } from 'react';
+import { Link } from 'react-router';
+import type { Role } from '@/shared/permissions';
+import { activeRole, setActiveRole, useMe } from '@/lib/auth';
+import { paths } from '@/lib/paths';
+import { RoleSwitcher } from '@/features/home/components/role-switcher';
+import { CalculatorTiles } from '@/features/calculators/components/calculator-tiles';
+import { Card } from '@/components/ui/page';
+import { Icon } from '@/components/ui/icons';
+
+const LEADS: Record<Role, string> = {
+  technician: 'Work out readings on the line: coil resistance, opening force, shot size, placement and service dates.',
+  author: 'Check your numbers before you write them into a guide.',
+  support: 'Work through a caller\u2019s numbers with them.',
+  manager: 'Forecast seat, needle and seal service from cycle counts, and fit failure data.',
+  admin: 'Set Beadpath up for your organisation.',
+};
+
+export function HomeRoute() {
+  const { data: me } = useMe();
+  const [role, setRole] = useState<Role | null>(null);
+  if (!me) return null;
+  const current = role ?? activeRole(me.user);
+  const choose = (r: Role) => {
+    setActiveRole(r);
+    setRole(r);
+  };
+
+  return (
+    <div className="space-y-6">
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <div>
+          <h1 className="text-2xl font-semibold sm:text-3xl">Good to see you, {me.user.name.split(' ')[0]}</h1>
+          <p className="mt-1 text-ink-soft">{LEADS[current]}</p>
+        </div>
+        <RoleSwitcher roles={me.user.roles} active={current} onChange={choose} />
+      </div>
+      {current === 'admin' ? (
+        <Card>
+          <h2 className="text-lg font-semibold">People</h2>
+          <p className="mt-1 text-ink-soft">Invite technicians, authors, support staff and managers, and set their roles.</p>
+          <Link to={paths.adminUsers} className="mt-3 inline-flex min-h-11 items-center gap-2 font-semibold text-amber-deep underline">
+            <Icon.users /> Manage users
+          </Link>
+        </Card>
+      ) : null}
+      <section aria-labelledby="calc-heading">
+        <h2 id="calc-heading" className="mb-3 text-xl font-semibold">
+          Calculators
+        </h2>
+        <CalculatorTiles role={current} />
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,110 @@
+// The signed-in frame: header with navigation allowed by the user's roles, the page, the safety footer.
+import { useEffect, useState } from 'react';
+import { Link, NavLink, Navigate, Outlet, useLocation, useNavigate } from 'react-router';
+import { can, ROLE_LABELS } from '@/shared/permissions';
+import { NAV } from '@/app/nav';
+import { useLogout, useMe } from '@/lib/auth';
+import { paths } from '@/lib/paths';
+import { Icon, Wordmark } from '@/components/ui/icons';
+import { LoadingBlock, Toaster } from '@/components/ui/feedback';
+
+export function AppLayout() {
+  const { data: me, isPending } = useMe();
+  const location = useLocation();
+  const navigate = useNavigate();
+  const logout = useLogout();
+  const [menuOpen, setMenuOpen] = useState(false);
+  useEffect(() => setMenuOpen(false), [location.pathname]);
+
+  if (isPending) {
+    return (
+      <div className="mx-auto max-w-5xl p-6">
+        <LoadingBlock label="Loading your account" />
+      </div>
+    );
+  }
+  if (!me) return <Navigate to={`${paths.signIn}?next=${encodeURIComponent(location.pathname + location.search)}`} replace />;
+
+  const items = NAV.filter((i) => !i.permission || can(me.user.roles, i.permission));
+  const link = ({ isActive }: { isActive: boolean }) =>
+    `flex min-h-11 items-center gap-2 rounded-md px-3 font-semibold ${isActive ? 'bg-amber-wash text-amber-deep' : 'text-ink hover:bg-paper-sunk'}`;
+
+  return (
+    <div className="flex min-h-dvh flex-col">
+      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:bg-paper-raised focus:p-2">
+        Skip to content
+      </a>
+      <header className="sticky top-0 z-30 border-b border-rule bg-paper/95 backdrop-blur">
+        <div className="mx-auto flex max-w-6xl items-center gap-3 px-4 py-2">
+          <Link to={paths.home} className="text-ink" aria-label="Beadpath home">
+            <Wordmark />
+          </Link>
+          <nav aria-label="Main" className="ml-4 hidden flex-1 items-center gap-1 md:flex">
+            {items.map((i) => (
+              <NavLink key={i.to} to={i.to} end={i.to === '/'} className={link}>
+                <i.icon />
+                {i.label}
+              </NavLink>
+            ))}
+          </nav>
+          <div className="ml-auto hidden items-center gap-2 md:flex">
+            <NavLink to={paths.account} className={link}>
+              <Icon.account />
+              <span className="max-w-40 truncate">{me.user.name}</span>
+            </NavLink>
+            <button type="button" className="min-h-11 rounded-md px-3 font-semibold text-ink-soft hover:bg-paper-sunk" onClick={() => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn) })}>
+              Sign out
+            </button>
+          </div>
+          <button
+            type="button"
+            className="ml-auto inline-flex min-h-11 min-w-11 items-center justify-center gap-2 rounded-md border border-rule-strong px-3 font-semibold md:hidden"
+            aria-expanded={menuOpen}
+            aria-controls="phone-menu"
+            onClick={() => setMenuOpen((o) => !o)}
+          >
+            {menuOpen ? <Icon.close /> : <Icon.menu />}
+            Menu
+          </button>
+        </div>
+        {menuOpen ? (
+          <nav id="phone-menu" aria-label="Main" className="border-t border-rule bg-paper-raised px-4 py-3 md:hidden">
+            <ul className="space-y-1">
+              {items.map((i) => (
+                <li key={i.to}>
+                  <NavLink to={i.to} end={i.to === '/'} className={link}>
+                    <i.icon />
+                    {i.label}
+                  </NavLink>
+                </li>
+              ))}
+              <li>
+                <NavLink to={paths.account} className={link}>
+                  <Icon.account />
+                  Account ({me.user.name})
+                </NavLink>
+              </li>
+              <li>
+                <button type="button" className="flex min-h-11 w-full items-center rounded-md px-3 font-semibold text-ink-soft" onClick={() => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn) })}>
+                  Sign out
+                </button>
+              </li>
+            </ul>
+          </nav>
+        ) : null}
+      </header>
+      <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6">
+        <Outlet />
+      </main>
+      <footer className="border-t border-rule bg-paper-sunk px-4 py-4 text-sm text-ink-soft">
+        <p className="mx-auto max-w-6xl">
+          Beadpath guides and calculators support trained people; they do not replace them. Before servicing a valve, follow
+          local codes, your site&rsquo;s rules, the equipment maker&rsquo;s manual and the fluid&rsquo;s safety data sheet: lock
+          out and tag out every energy source and relieve air and fluid pressure first. Signed in as {me.user.email} ·{' '}
+          {me.user.roles.map((r) => ROLE_LABELS[r]).join(', ')} · {me.user.organisationName}
+        </p>
+      </footer>
+      <Toaster />
+    </div>
+  );
+}

@@ -1,0 +1,79 @@
+// Beadpath's own line icons, drawn for the project (inline SVG, currentColor).
+import type { SVGProps } from 'react';
+
+function Svg(props: SVGProps<SVGSVGElement>) {
+  return <svg viewBox="0 0 24 24" width="20" height="20" fill="none" stroke="currentColor" strokeWidth="2" strokeLinecap="round" strokeLinejoin="round" aria-hidden {...props} />;
+}
+
+export const Icon = {
+  home: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M4 11l8-7 8 7v9h-5v-6H9v6H4z" />
+    </Svg>
+  ),
+  calculator: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <rect x="5" y="3" width="14" height="18" rx="2" />
+      <path d="M8 7h8M8 12h2M14 12h2M8 16h2M14 16h2" />
+    </Svg>
+  ),
+  users: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <circle cx="9" cy="8" r="3.5" />
+      <path d="M2.5 20c.8-3.6 3.3-5.5 6.5-5.5s5.7 1.9 6.5 5.5M16 4.8a3.5 3.5 0 010 6.4M18.5 14.8c1.6.8 2.6 2.5 3 5.2" />
+    </Svg>
+  ),
+  account: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <circle cx="12" cy="8" r="4" />
+      <path d="M4 21c1-4 4-6 8-6s7 2 8 6" />
+    </Svg>
+  ),
+  menu: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M4 7h16M4 12h16M4 17h16" />
+    </Svg>
+  ),
+  close: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M6 6l12 12M18 6L6 18" />
+    </Svg>
+  ),
+  /** A gauge: readings and Measure steps. */
+  gauge: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M4 17a8 8 0 1116 0" />
+      <path d="M12 17l4-5" />
+      <circle cx="12" cy="17" r="1.2" fill="currentColor" />
+    </Svg>
+  ),
+  warning: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M12 3l10 18H2z" />
+      <path d="M12 10v5M12 18v.5" />
+    </Svg>
+  ),
+  copy: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <rect x="8" y="8" width="12" height="12" rx="2" />
+      <path d="M16 8V5a1 1 0 00-1-1H5a1 1 0 00-1 1v10a1 1 0 001 1h3" />
+    </Svg>
+  ),
+  link: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M10 14a4 4 0 005.7 0l3-3a4 4 0 00-5.7-5.7l-1 1M14 10a4 4 0 00-5.7 0l-3 3a4 4 0 005.7 5.7l1-1" />
+    </Svg>
+  ),
+};
+
+export function Wordmark({ className = '' }: { className?: string }) {
+  return (
+    <span className={`inline-flex items-center gap-2 font-serif text-xl font-semibold ${className}`}>
+      <svg viewBox="0 0 32 32" width="28" height="28" aria-hidden>
+        <path d="M4 21c4 0 4-6 8-6s4 6 8 6 4-6 8-6" fill="none" stroke="#9C5700" strokeWidth="3" strokeLinecap="round" />
+        <circle cx="8" cy="9" r="3" fill="currentColor" />
+      </svg>
+      Beadpath
+    </span>
+  );
+}

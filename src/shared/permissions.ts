@@ -1,0 +1,36 @@
+// The one table of who may do what. The server's route guards enforce it; the client reads it
+// only to hide actions the server would refuse.
+
+export const ROLES = ['admin', 'author', 'technician', 'support', 'manager'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const ROLE_LABELS: Record<Role, string> = {
+  admin: 'Admin',
+  author: 'Author',
+  technician: 'Technician',
+  support: 'Support desk',
+  manager: 'Manager',
+};
+
+const everyone: readonly Role[] = ROLES;
+
+export const PERMISSIONS = {
+  /** Run the engineering calculators. */
+  'calculators:use': everyone,
+  /** List users, invite, change roles, deactivate. */
+  'users:manage': ['admin'],
+  /** Organisation-wide settings. */
+  'settings:manage': ['admin'],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Permission = keyof typeof PERMISSIONS;
+
+export function can(roles: readonly Role[] | undefined | null, permission: Permission): boolean {
+  if (!roles) return false;
+  const allowed = PERMISSIONS[permission] as readonly Role[];
+  return roles.some((r) => allowed.includes(r));
+}
+
+export function isRole(value: string): value is Role {
+  return (ROLES as readonly string[]).includes(value);
+}
