@@ -62,7 +62,7 @@ export function CalculatorResults({
                 </span>
                 {units.length > 1 && o.kind !== 'any' ? (
                   <select
-                    aria-label={`Unit of ${o.label.toLowerCase()}`}
+                    aria-label={`Show ${o.label.toLowerCase()} in`}
                     className="min-h-11 rounded-md border border-rule-strong bg-paper px-2"
                     value={outputUnits[o.name] ?? v.unit}
                     onChange={(e) => onOutputUnit(o.name, e.target.value)}
