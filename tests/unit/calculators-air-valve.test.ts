@@ -48,7 +48,7 @@ describe('air-piston-force (Parr, Hydraulics and Pneumatics [memory]; force bala
   });
 
   it('when mathjs evaluates (6 bar)·π(20 mm)²/4, then 188.4955592153876 N', () => {
-    // calculators.md §6 npm cross-check: mathjs [checked by re-run]
+    // calculators.md §6 npm cross-check: mathjs (verified)
     const fromMath = math.evaluate('(6 bar)*pi*(20 mm)^2/4 to N').toNumber('N');
     expectRel(fromMath, 188.4955592153876, 1e-12);
     const r = runCalculator('air-piston-force', { inputs: valve });
@@ -120,7 +120,7 @@ describe('air-consumption (ISO 8778:2003 title [checked]; isothermal free air de
   });
 
   it('when mathjs evaluates the per-minute air, then 0.6523397387946296 L/min', () => {
-    // calculators.md §6 npm cross-check: mathjs [checked by re-run]
+    // calculators.md §6 npm cross-check: mathjs (verified)
     const fromMath = math
       .evaluate('pi*(20 mm)^2/4 * 1 mm * ((6 bar) + (101325 Pa))/(101325 Pa) * 300 / minute to L/minute')
       .toNumber('L/minute');

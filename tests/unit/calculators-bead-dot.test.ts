@@ -47,7 +47,7 @@ describe('bead', () => {
   });
 
   it('when the same bead is evaluated by mathjs with units, then 4.241150082346219 g per part', () => {
-    // calculators.md §2 npm cross-check: mathjs evaluate [checked by re-run]
+    // calculators.md §2 npm cross-check: mathjs evaluate (verified)
     const fromMath = math.evaluate('pi*(3 mm)^2/4 * 500 mm * 1.2 g/cm^3 to g').toNumber('g');
     const r = runCalculator('bead', { inputs: { profile: 'round', width: q(3, 'mm'), length: q(500, 'mm'), density } });
     expectRel(out(r, 'mass'), fromMath, 1e-12);

@@ -48,7 +48,7 @@ describe('coil-check (IEC 60028 copper α20 = 0.00393/K, via a secondary summary
   });
 
   it('when mathjs evaluates (24 V)/(28.8 Ω) and (24 V)²/(28.8 Ω), then 0.8333 A and 20 W', () => {
-    // calculators.md §7 npm cross-check: mathjs [checked by re-run]
+    // calculators.md §7 npm cross-check: mathjs (verified)
     const r = check(28.8, 20);
     expectRel(out(r, 'expectedCurrent'), math.evaluate('(24 V)/(28.8 ohm) to A').toNumber('A'), 1e-12);
     expectRel(out(r, 'expectedPower'), math.evaluate('(24 V)^2/(28.8 ohm) to W').toNumber('W'), 1e-12);
@@ -105,6 +105,15 @@ describe('coil-check (IEC 60028 copper α20 = 0.00393/K, via a secondary summary
     // calculators.md §7: 234.5 consistent with α20 [derived]
     expectPrinted(1 / (234.5 + 20), '0.003929');
     expectRel(resistanceAt(28.8, 353.15), 28.8 * (1 + COPPER_ALPHA_20 * 60), 1e-12);
+  });
+
+  it('when IEC 60228\'s simplified correction table is compared, then it fits 250/(230 + t), about 0.004 per K, not this α', () => {
+    // IEC 60228 table values from a secondary copy; the 250/(230 + t) fit is an inference [derived]
+    expectPrinted(250 / (230 + 5), '1.064');
+    expectPrinted(250 / (230 + 40), '0.926');
+    expectPrinted(250 / (230 + 80), '0.806');
+    // With α20 = 0.00393 the factor to 20 °C at 80 °C is 0.8092 instead.
+    expectPrinted(1 / resistanceAt(1, 353.15), '0.8092');
   });
 
   it('when the measurement temperature is below absolute zero, then it is refused', () => {

@@ -121,7 +121,7 @@ describe('nozzle-flow: adhesive case B (Bird, Stewart & Lightfoot §2.3 [memory]
   });
 
   it('when mathjs evaluates case B with units, then 10.921985726378628 µL/s', () => {
-    // calculators.md §3 npm cross-check: mathjs [checked by re-run]
+    // calculators.md §3 npm cross-check: mathjs (verified)
     const fromMath = math.evaluate('pi*(0.205 mm)^4*(2 bar)/(8*(1 Pa s)*(12.7 mm)) to uL/s').toNumber('uL/s');
     expectRel(fromMath, 10.921985726378628, 1e-12);
     expectRel(out(runCalculator('nozzle-flow', { inputs: caseB, outputUnits: { flowRate: 'uL/s' } }), 'flowRate'), fromMath, 1e-12);
@@ -236,6 +236,24 @@ describe('nozzle-flow-power-law: main case (Bird, Stewart & Lightfoot §8.3 [mem
     const r = runCalculator('nozzle-flow-power-law', { inputs: main });
     expectPrinted(out(r, 'reynolds', '1'), '0.41954');
     expect(r.warnings).toEqual([]);
+  });
+
+  it('when the velocity profile is integrated numerically, then it gives the same Q', () => {
+    // calculators.md §4: numerical integration of the velocity profile [derived]
+    const R = 0.25e-3;
+    const profile = (n: number, K: number, r: number) =>
+      (n / (n + 1)) * (0.5e6 / (2 * K * 12.7e-3)) ** (1 / n) * (R ** ((n + 1) / n) - r ** ((n + 1) / n));
+    for (const [n, K] of [[0.5, 50], [0.3, 200], [1, 1]]) {
+      const steps = 2000;
+      const h = R / steps;
+      let sum = 0;
+      for (let i = 0; i <= steps; i++) {
+        const r = i * h;
+        const weight = i === 0 || i === steps ? 1 : i % 2 === 1 ? 4 : 2;
+        sum += weight * 2 * Math.PI * r * profile(n, K, r);
+      }
+      expectRel((sum * h) / 3, powerLawFlow(R, 12.7e-3, K, n, 0.5e6), PHYSICS);
+    }
   });
 
   it('when the flow is fed back as a target, then the inverse returns exactly 0.5 MPa', () => {

@@ -77,7 +77,7 @@ describe('placement-drift (constant-speed kinematics [derived])', () => {
   });
 
   it('when mathjs evaluates (0.5 m/s)·(8 ms), then 4 mm', () => {
-    // calculators.md §8 npm cross-check: mathjs [checked by re-run]
+    // calculators.md §8 npm cross-check: mathjs (verified)
     const fromMath = math.evaluate('(0.5 m/s)*(8 ms) to mm').toNumber('mm');
     expectRel(out(runCalculator('placement-drift', { inputs: line }), 'startOffset'), fromMath, 1e-12);
   });

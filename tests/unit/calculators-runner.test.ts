@@ -33,7 +33,7 @@ function fieldsOf(fn: () => unknown): Record<string, string> {
   throw new Error('expected a CalculatorInputError');
 }
 
-// calculators.md "The calculators" table [contract]: inputs (optional ones marked ?) and outputs.
+// calculators.md "The calculators" table calculators.md: inputs (optional ones marked ?) and outputs.
 const CONTRACT: Record<string, { inputs: string[]; outputs: string[] }> = {
   'unit-convert': { inputs: ['value', 'to'], outputs: ['value'] },
   bead: { inputs: ['profile', 'width', 'height?', 'length', 'density', 'partsPerMinute?'], outputs: ['area', 'massPerLength', 'volume', 'mass', 'massPerHour'] },

@@ -138,7 +138,7 @@ describe('viscosity-temperature: two-point fits on water (Perry\'s Table 2-135 [
 
 describe('viscosity-temperature: least-squares fit for three or more points', () => {
   it('when five table points are fitted, then B and A match simple-statistics linearRegression on (1/T, ln μ)', () => {
-    // calculators.md §5 npm cross-check: simple-statistics linearRegression [checked by re-run]
+    // calculators.md §5 npm cross-check: simple-statistics linearRegression (verified)
     const temps = [300, 310, 320, 330, 340];
     const fit = andradeFitLeastSquares(temps.map((t) => ({ t, mu: WATER[t] })));
     const line = linearRegression(temps.map((t) => [1 / t, Math.log(WATER[t])]));

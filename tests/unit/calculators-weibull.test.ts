@@ -87,7 +87,7 @@ describe('weibull: NIST/SEMATECH e-Handbook §8.4.1.3 maximum-likelihood example
   });
 
   it('when @stdlib evaluates the quantile and cdf, then they match ours (164.02289963360573 and 0.9560313727438001)', () => {
-    // calculators.md §10 npm cross-check: @stdlib/stats-base-dists-weibull-* [checked by re-run]
+    // calculators.md §10 npm cross-check: @stdlib/stats-base-dists-weibull-* (verified)
     expectRel(weibullQuantileStdlib(0.1, NIST.shape, NIST.scale), 164.02289963360573, 1e-12);
     expectRel(weibullQuantile(0.1, NIST.shape, NIST.scale), weibullQuantileStdlib(0.1, NIST.shape, NIST.scale), 1e-12);
     expectRel(1 - weibullCdfStdlib(100, NIST.shape, NIST.scale), 0.9560313727438001, 1e-12);
@@ -154,7 +154,7 @@ describe('weibull: complete data, Kececioglu set (Check 2 [memory]; values deriv
   });
 
   it('when simple-statistics linearRegression fits ln t on y, then it gives β = 1.4396632767940565, η = 76.1095957909622', () => {
-    // calculators.md §10 npm cross-check [checked by re-run]
+    // calculators.md §10 npm cross-check (verified)
     const points = COMPLETE.map((t, i) => [Math.log(-Math.log(1 - benardMedianRank(i + 1, 6))), Math.log(t)]);
     const line = linearRegression(points);
     expectRel(1 / line.m, 1.4396632767940565, 1e-12);

@@ -44,7 +44,7 @@ math.createUnit('thou', '0.001 in');
 
 describe('unit table', () => {
   it('when listing the kinds, then every kind of the contract table is there with its spellings in order', () => {
-    // calculators.md "Unit spellings" table [contract]
+    // calculators.md "Unit spellings" table calculators.md
     const expected: Record<QuantityKind, string[]> = {
       pressure: ['Pa', 'kPa', 'MPa', 'bar', 'psi'],
       viscosity: ['Pa.s', 'mPa.s', 'cP', 'P'],
@@ -231,13 +231,13 @@ describe('§1 unit conversions: check cases', () => {
 
 describe('§1 mathjs cross-check', () => {
   it('when mathjs converts 100 psi to bar, then it agrees within 1e-9 (its psi constant is off by 5.9e-11)', () => {
-    // calculators.md §1 npm cross-check: mathjs 15.2.0 gives 6.89475729276459 [checked by re-run]
+    // calculators.md §1 npm cross-check: mathjs 15.2.0 gives 6.89475729276459 (verified)
     const fromMath = math.unit(100, 'psi').toNumber('bar');
     expectRel(convert(100, 'psi', 'bar', 'pressure'), fromMath, EXACT);
   });
 
   it('when mathjs has poise, cP and thou added, then its conversions match ours', () => {
-    // calculators.md §1: createUnit('poise','0.1 Pa s'), ('cP','1 mPa s'), ('thou','0.001 in') [checked by re-run]
+    // calculators.md §1: createUnit('poise','0.1 Pa s'), ('cP','1 mPa s'), ('thou','0.001 in') (verified)
     expectRel(convert(1500, 'cP', 'Pa.s', 'viscosity'), math.unit(1500, 'cP').toNumber('Pa s'), EXACT);
     expectRel(convert(15, 'P', 'cP', 'viscosity'), math.unit(15, 'poise').toNumber('cP'), EXACT);
     expectRel(convert(25, 'thou', 'mm', 'length'), math.unit(25, 'thou').toNumber('mm'), EXACT);
