@@ -21,6 +21,14 @@ import { authRoutes, configurePassport } from './modules/auth/auth.routes';
 import { createAuthService } from './modules/auth/auth.service';
 import { calculatorRoutes } from './modules/calculators/calculators.routes';
 import { healthRoutes } from './modules/health/health.routes';
+import { settingsRoutes } from './modules/admin/settings.routes';
+import { articlesRoutes } from './modules/articles/articles.routes';
+import { createArticlesService } from './modules/articles/articles.service';
+import { filesRoutes } from './modules/files/files.routes';
+import { createFilesService } from './modules/files/files.service';
+import { adminTagsRoutes, tagsRoutes } from './modules/tags/tags.routes';
+import { createTagsService } from './modules/tags/tags.service';
+import { localStorage } from './lib/storage';
 
 export interface AppDeps {
   db: Knex;
@@ -32,10 +40,11 @@ export interface AppDeps {
 }
 
 export interface BeadpathApp extends Express {
-  locals: Express['locals'] & { routeTable: RouteInfo[]; close: () => Promise<void> };
+  locals: Express['locals'] & { routeTable: RouteInfo[]; filesDir: string; close: () => Promise<void> };
 }
 
 export const defaultClientDir = fileURLToPath(new URL('../dist', import.meta.url));
+export const defaultFilesDir = fileURLToPath(new URL('../.data/files', import.meta.url));
 
 export function createApp(deps: AppDeps): BeadpathApp {
   const { db, config, logger } = deps;
@@ -67,6 +76,9 @@ export function createApp(deps: AppDeps): BeadpathApp {
   const store = new PgStore({ pool: sessionPool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60, errorLog: (...args: unknown[]) => logger.warn({ detail: args.map(String).join(' ') }, 'session store error') });
 
   const auth = createAuthService(db);
+  const tags = createTagsService(db);
+  const filesDir = config.FILES_DIR ?? defaultFilesDir;
+  const files = createFilesService(db, localStorage(filesDir));
   const passport = configurePassport(auth);
   const api = express.Router();
   api.use(express.json({ limit: config.JSON_BODY_LIMIT }));
@@ -92,7 +104,12 @@ export function createApp(deps: AppDeps): BeadpathApp {
     health,
     authRoutes({ auth, passport, loginLimit: config.LOGIN_RATE_LIMIT }),
     adminRoutes({ admin: createAdminService(db) }),
+    settingsRoutes({ db }),
     calculatorRoutes(),
+    tagsRoutes({ tags }),
+    adminTagsRoutes({ tags }),
+    filesRoutes({ files, limitMb: config.UPLOAD_LIMIT_MB }),
+    articlesRoutes({ articles: createArticlesService({ db, tags, files }) }),
   ];
   app.use('/api', api);
   for (const r of routers) if (r !== health) app.use(r.base, r.router);
@@ -110,6 +127,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
   }
 
   app.locals.routeTable = routers.flatMap((r) => r.routes);
+  app.locals.filesDir = filesDir;
   app.locals.close = async () => {
     await new Promise<void>((resolve) => store.close ? (store.close(), resolve()) : resolve());
     await sessionPool.end().catch(() => {});

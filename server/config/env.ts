@@ -16,6 +16,8 @@ export const ConfigSchema = z.object({
   TRUST_PROXY: bool.default(false),
   PUBLIC_ORIGIN: z.url().optional(),
   LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
+  FILES_DIR: z.string().min(1).optional(),
+  UPLOAD_LIMIT_MB: z.coerce.number().min(1).max(100).default(15),
   JSON_BODY_LIMIT: z.string().regex(/^\d+(kb|mb)$/i).default('1mb'),
 });
 

@@ -7,6 +7,8 @@ export class AppError extends Error {
     readonly code: ErrorCode,
     message: string,
     readonly fields?: Record<string, string>,
+    /** Extra data a client needs to recover, e.g. the current text on an edit conflict. */
+    readonly details?: Record<string, unknown>,
   ) {
     super(message);
     this.status = ERROR_CODES[code];

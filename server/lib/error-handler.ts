@@ -25,7 +25,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
 
   if (err instanceof AppError) {
     status = err.status;
-    body = { code: err.code, message: err.message, fields: err.fields };
+    body = { code: err.code, message: err.message, fields: err.fields, details: err.details };
   } else if (err instanceof ZodError) {
     status = 400;
     body = { code: 'invalid_input', message: 'Some fields are not valid', fields: zodFields(err) };
@@ -48,5 +48,6 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   }
   if (res.headersSent) return;
   if (!body.fields) delete body.fields;
+  if (!body.details) delete body.details;
   res.status(status).json({ error: { ...body, requestId } } satisfies ApiErrorBody);
 };

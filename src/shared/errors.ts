@@ -20,6 +20,7 @@ export interface ApiErrorBody {
     code: ErrorCode;
     message: string;
     fields?: Record<string, string>;
+    details?: Record<string, unknown>;
     requestId?: string;
   };
 }

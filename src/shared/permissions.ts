@@ -17,6 +17,16 @@ const everyone: readonly Role[] = ROLES;
 export const PERMISSIONS = {
   /** Run the engineering calculators. */
   'calculators:use': everyone,
+  /** Read published articles. */
+  'articles:read': everyone,
+  /** Write and edit articles, submit them for review, archive them. */
+  'articles:write': ['author'],
+  /** Approve or send back another author's article. */
+  'articles:review': ['author'],
+  /** Upload photos and documents (articles, walks, cases). */
+  'files:upload': ['admin', 'author', 'technician', 'support'],
+  /** Edit the organisation's tag lists. */
+  'tags:manage': ['admin'],
   /** List users, invite, change roles, deactivate. */
   'users:manage': ['admin'],
   /** Organisation-wide settings. */

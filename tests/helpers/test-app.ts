@@ -2,6 +2,9 @@
 import type { AddressInfo } from 'node:net';
 import { createServer, type Server } from 'node:http';
 import { randomBytes } from 'node:crypto';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import request from 'supertest';
 import type { Role } from '../../src/shared/permissions';
 import { createApp, type BeadpathApp } from '../../server/app';
@@ -51,6 +54,7 @@ export async function startTestApp(env: Record<string, string> = {}, opts: { via
     SESSION_SECRET: randomBytes(32).toString('hex'),
     LOG_LEVEL: 'silent',
     LOGIN_RATE_LIMIT: '1000',
+    FILES_DIR: mkdtempSync(join(tmpdir(), 'beadpath-files-')),
     ...env,
   });
   const app = createApp({ db, config, logger: createLogger('silent'), clientDir: null, version: 'test' });

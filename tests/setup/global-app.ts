@@ -3,6 +3,9 @@
 import { createServer } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { randomBytes } from 'node:crypto';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import pg from 'pg';
 import type { TestProject } from 'vitest/node';
 import { createApp } from '../../server/app';
@@ -36,7 +39,7 @@ export default async function setup(project: TestProject) {
   const db = createDb(dbUrl, { max: 6 });
   process.env.BEADPATH_DEMO = '1';
   await runSeeds(db);
-  const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), LOG_LEVEL: 'silent', LOGIN_RATE_LIMIT: '50' });
+  const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), LOG_LEVEL: 'silent', LOGIN_RATE_LIMIT: '50', FILES_DIR: mkdtempSync(join(tmpdir(), 'beadpath-files-')) });
   const app = createApp({ db, config, logger: createLogger('silent') });
   const server = createServer(app);
   await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
