@@ -9,6 +9,11 @@ import { AccountPage } from '@/features/auth/components/account-page';
 import { UsersPage } from '@/features/admin/components/users-page';
 import { CalculatorListPage } from '@/features/calculators/components/calculator-list-page';
 import { CalculatorPage } from '@/features/calculators/components/calculator-page';
+import { ArticleListPage } from '@/features/articles/components/article-list-page';
+import { ArticlePage } from '@/features/articles/components/article-page';
+import { ArticleEditorPage } from '@/features/articles/components/article-editor-page';
+import { ArticleHistoryPage } from '@/features/articles/components/article-history-page';
+import { SettingsPage } from '@/features/admin/components/settings-page';
 import { HomeRoute } from './routes/home';
 import { RequirePermission } from './require-permission';
 
@@ -26,6 +31,12 @@ export const router = createBrowserRouter([
           { path: paths.account, element: <AccountPage /> },
           { path: paths.calculators, element: <RequirePermission permission="calculators:use"><CalculatorListPage /></RequirePermission> },
           { path: paths.calculator(), element: <RequirePermission permission="calculators:use"><CalculatorPage /></RequirePermission> },
+          { path: paths.articles, element: <RequirePermission permission="articles:read"><ArticleListPage /></RequirePermission> },
+          { path: paths.articleNew, element: <RequirePermission permission="articles:write"><ArticleEditorPage /></RequirePermission> },
+          { path: paths.article(), element: <RequirePermission permission="articles:read"><ArticlePage /></RequirePermission> },
+          { path: paths.articleEdit(), element: <RequirePermission permission="articles:write"><ArticleEditorPage /></RequirePermission> },
+          { path: paths.articleHistory(), element: <RequirePermission permission="articles:write"><ArticleHistoryPage /></RequirePermission> },
+          { path: paths.adminSettings, element: <RequirePermission permission="settings:manage"><SettingsPage /></RequirePermission> },
           { path: paths.adminUsers, element: <RequirePermission permission="users:manage"><UsersPage /></RequirePermission> },
           { path: '*', element: <NotFoundPage /> },
         ],

@@ -8,6 +8,8 @@ export class ApiError extends Error {
     message: string,
     readonly fields: Record<string, string> = {},
     readonly requestId?: string,
+    /** Recovery data the server sends with some errors, e.g. the current text on a 409. */
+    readonly details?: Record<string, unknown>,
   ) {
     super(message);
   }
@@ -49,6 +51,7 @@ export async function api<T>(path: string, opts: RequestOptions = {}): Promise<T
       e?.message ?? `The server answered ${res.status} ${res.statusText}`,
       e?.fields ?? {},
       e?.requestId,
+      e?.details,
     );
   }
   return data as T;

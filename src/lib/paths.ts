@@ -7,4 +7,10 @@ export const paths = {
   calculators: '/calculators',
   calculator: (id = ':id') => `/calculators/${id}`,
   adminUsers: '/admin/users',
+  adminSettings: '/admin/settings',
+  articles: '/articles',
+  articleNew: '/articles/new',
+  article: (id: number | string = ':id') => `/articles/${id}`,
+  articleEdit: (id: number | string = ':id') => `/articles/${id}/edit`,
+  articleHistory: (id: number | string = ':id') => `/articles/${id}/history`,
 } as const;

@@ -8,10 +8,12 @@ import { RoleSwitcher } from '@/features/home/components/role-switcher';
 import { CalculatorTiles } from '@/features/calculators/components/calculator-tiles';
 import { Card } from '@/components/ui/page';
 import { Icon } from '@/components/ui/icons';
+import { ButtonLink } from '@/components/ui/button';
+import { ArticleShortList } from '@/features/articles/components/article-short-list';
 
 const LEADS: Record<Role, string> = {
   technician: 'Work out readings on the line: coil resistance, opening force, shot size, placement and service dates.',
-  author: 'Check your numbers before you write them into a guide.',
+  author: 'Reviews waiting for you, your drafts, and the numbers to check before you write them down.',
   support: 'Work through a caller\u2019s numbers with them.',
   manager: 'Forecast seat, needle and seal service from cycle counts, and fit failure data.',
   admin: 'Set Beadpath up for your organisation.',
@@ -44,6 +46,20 @@ export function HomeRoute() {
             <Icon.users /> Manage users
           </Link>
         </Card>
+      ) : null}
+      {current === 'author' ? (
+        <div className="space-y-4">
+          <div className="flex flex-wrap gap-2">
+            <ButtonLink to={paths.articleNew}>New article</ButtonLink>
+          </div>
+          <div className="grid gap-4 lg:grid-cols-2">
+            <ArticleShortList title="Waiting for your review" filters={{ status: 'review-queue' }} empty="No article is waiting for your review." />
+            <ArticleShortList title="Your articles" filters={{ status: 'all', mine: '1' }} empty="You have not written an article yet." />
+          </div>
+        </div>
+      ) : null}
+      {current === 'technician' || current === 'support' ? (
+        <ArticleShortList title="Newest articles" filters={{}} empty="No article has been published yet." limit={4} />
       ) : null}
       <section aria-labelledby="calc-heading">
         <h2 id="calc-heading" className="mb-3 text-xl font-semibold">

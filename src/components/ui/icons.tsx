@@ -29,6 +29,18 @@ export const Icon = {
       <path d="M4 21c1-4 4-6 8-6s7 2 8 6" />
     </Svg>
   ),
+  book: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M4 5a2 2 0 012-2h13v16H6a2 2 0 00-2 2z" />
+      <path d="M4 19V5M8 7h7M8 11h5" />
+    </Svg>
+  ),
+  settings: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <circle cx="12" cy="12" r="3" />
+      <path d="M12 2v3M12 19v3M2 12h3M19 12h3M4.9 4.9l2.1 2.1M17 17l2.1 2.1M4.9 19.1L7 17M17 7l2.1-2.1" />
+    </Svg>
+  ),
   menu: (p: SVGProps<SVGSVGElement>) => (
     <Svg {...p}>
       <path d="M4 7h16M4 12h16M4 17h16" />

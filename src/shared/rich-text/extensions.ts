@@ -49,7 +49,7 @@ export const Caution = Node.create({
     return [
       'aside',
       mergeAttributes(HTMLAttributes, { 'data-caution': hazard, class: 'caution', role: 'note', 'aria-label': `Caution: ${HAZARDS[hazard]}` }),
-      ['p', { class: 'caution-hazard' }, `Caution: ${HAZARDS[hazard]}`],
+      ['p', { class: 'caution-hazard', contenteditable: 'false' }, `Caution: ${HAZARDS[hazard]}`],
       ['div', { class: 'caution-body' }, 0],
     ];
   },

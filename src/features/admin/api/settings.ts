@@ -1,0 +1,43 @@
+// Organisation settings and tag lists (admins).
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api } from '@/lib/api-client';
+
+export interface OrgSettings {
+  name: string;
+  allowSelfPublish: boolean;
+}
+export interface AdminTag {
+  group: 'actuation' | 'component' | 'fluid';
+  slug: string;
+  label: string;
+  active: boolean;
+}
+
+export const settingsKeys = { settings: ['admin', 'settings'] as const, tags: ['admin', 'tags'] as const };
+
+export function useSettings() {
+  return useQuery({ queryKey: settingsKeys.settings, queryFn: () => api<{ settings: OrgSettings }>('/api/admin/settings').then((r) => r.settings) });
+}
+
+export function useSaveSettings() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (patch: Partial<OrgSettings>) => api<{ settings: OrgSettings }>('/api/admin/settings', { method: 'PATCH', body: patch }).then((r) => r.settings),
+    onSuccess: (s) => qc.setQueryData(settingsKeys.settings, s),
+  });
+}
+
+export function useAdminTags() {
+  return useQuery({ queryKey: settingsKeys.tags, queryFn: () => api<{ tags: AdminTag[] }>('/api/admin/tags').then((r) => r.tags) });
+}
+
+export function useSaveTags() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (tags: AdminTag[]) => api<{ tags: AdminTag[] }>('/api/admin/tags', { method: 'PUT', body: { tags } }).then((r) => r.tags),
+    onSuccess: (t) => {
+      qc.setQueryData(settingsKeys.tags, t);
+      qc.invalidateQueries({ queryKey: ['tags'] });
+    },
+  });
+}
