@@ -23,6 +23,20 @@ export const PERMISSIONS = {
   'articles:write': ['author'],
   /** Approve or send back another author's article. */
   'articles:review': ['author'],
+  /** See published guides (to start walks and read them). */
+  'guides:read': everyone,
+  /** Write guides: drafts, submit, import, export, retire. */
+  'guides:write': ['author'],
+  /** Approve or send back another author's guide version. */
+  'guides:review': ['author'],
+  /** Edit the organisation's list of causes. */
+  'causes:manage': ['admin', 'author'],
+  /** Walk a guide and record what was found. */
+  'walks:run': ['technician', 'support', 'author'],
+  /** See colleagues' walks (shared links, the support desk's live view, managers' drill-downs). */
+  'walks:view-others': ['support', 'manager', 'author', 'admin'],
+  /** Flag a step as wrong or unclear. */
+  'guides:flag': ['technician', 'support', 'author'],
   /** Upload photos and documents (articles, walks, cases). */
   'files:upload': ['admin', 'author', 'technician', 'support'],
   /** Edit the organisation's tag lists. */
