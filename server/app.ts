@@ -29,6 +29,8 @@ import { createFilesService } from './modules/files/files.service';
 import { adminTagsRoutes, tagsRoutes } from './modules/tags/tags.routes';
 import { createTagsService } from './modules/tags/tags.service';
 import { localStorage } from './lib/storage';
+import { guidesRoutes } from './modules/guides/guides.routes';
+import { walksRoutes } from './modules/walks/walks.routes';
 
 export interface AppDeps {
   db: Knex;
@@ -110,6 +112,8 @@ export function createApp(deps: AppDeps): BeadpathApp {
     adminTagsRoutes({ tags }),
     filesRoutes({ files, limitMb: config.UPLOAD_LIMIT_MB }),
     articlesRoutes({ articles: createArticlesService({ db, tags, files }) }),
+    ...guidesRoutes({ db, tags, files }),
+    ...walksRoutes({ db, files }),
   ];
   app.use('/api', api);
   for (const r of routers) if (r !== health) app.use(r.base, r.router);
