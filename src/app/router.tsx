@@ -14,6 +14,12 @@ import { ArticlePage } from '@/features/articles/components/article-page';
 import { ArticleEditorPage } from '@/features/articles/components/article-editor-page';
 import { ArticleHistoryPage } from '@/features/articles/components/article-history-page';
 import { SettingsPage } from '@/features/admin/components/settings-page';
+import { GuideListPage } from '@/features/guides/components/guide-list-page';
+import { GuidePage } from '@/features/guides/components/guide-page';
+import { GuideEditorPage } from '@/features/guides/components/guide-editor-page';
+import { WalkStartPage } from '@/features/walks/components/walk-start-page';
+import { WalkRunnerPage } from '@/features/walks/components/walk-runner-page';
+import { WalkSummaryPage } from '@/features/walks/components/walk-summary-page';
 import { HomeRoute } from './routes/home';
 import { RequirePermission } from './require-permission';
 
@@ -36,6 +42,12 @@ export const router = createBrowserRouter([
           { path: paths.article(), element: <RequirePermission permission="articles:read"><ArticlePage /></RequirePermission> },
           { path: paths.articleEdit(), element: <RequirePermission permission="articles:write"><ArticleEditorPage /></RequirePermission> },
           { path: paths.articleHistory(), element: <RequirePermission permission="articles:write"><ArticleHistoryPage /></RequirePermission> },
+          { path: paths.guides, element: <RequirePermission permission="guides:read"><GuideListPage /></RequirePermission> },
+          { path: paths.guide(), element: <RequirePermission permission="guides:read"><GuidePage /></RequirePermission> },
+          { path: paths.guideEdit(), element: <RequirePermission permission="guides:write"><GuideEditorPage /></RequirePermission> },
+          { path: paths.guideWalk(), element: <RequirePermission permission="walks:run"><WalkStartPage /></RequirePermission> },
+          { path: paths.walk(), element: <WalkRunnerPage /> },
+          { path: paths.walkSummary(), element: <WalkSummaryPage /> },
           { path: paths.adminSettings, element: <RequirePermission permission="settings:manage"><SettingsPage /></RequirePermission> },
           { path: paths.adminUsers, element: <RequirePermission permission="users:manage"><UsersPage /></RequirePermission> },
           { path: '*', element: <NotFoundPage /> },

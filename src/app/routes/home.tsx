@@ -10,6 +10,8 @@ import { Card } from '@/components/ui/page';
 import { Icon } from '@/components/ui/icons';
 import { ButtonLink } from '@/components/ui/button';
 import { ArticleShortList } from '@/features/articles/components/article-short-list';
+import { OpenWalks } from '@/features/walks/components/open-walks';
+import { SymptomChips } from '@/features/guides/components/symptom-chips';
 
 const LEADS: Record<Role, string> = {
   technician: 'Work out readings on the line: coil resistance, opening force, shot size, placement and service dates.',
@@ -56,6 +58,12 @@ export function HomeRoute() {
             <ArticleShortList title="Waiting for your review" filters={{ status: 'review-queue' }} empty="No article is waiting for your review." />
             <ArticleShortList title="Your articles" filters={{ status: 'all', mine: '1' }} empty="You have not written an article yet." />
           </div>
+        </div>
+      ) : null}
+      {current === 'technician' || current === 'support' ? (
+        <div className="space-y-6">
+          <SymptomChips />
+          {current === 'technician' ? <OpenWalks /> : null}
         </div>
       ) : null}
       {current === 'technician' || current === 'support' ? (

@@ -29,6 +29,14 @@ export const Icon = {
       <path d="M4 21c1-4 4-6 8-6s7 2 8 6" />
     </Svg>
   ),
+  guide: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <circle cx="6" cy="5" r="2" />
+      <circle cx="6" cy="19" r="2" />
+      <circle cx="18" cy="12" r="2" />
+      <path d="M6 7v10M8 5c6 0 8 3 8 5M8 19c6 0 8-3 8-5" />
+    </Svg>
+  ),
   book: (p: SVGProps<SVGSVGElement>) => (
     <Svg {...p}>
       <path d="M4 5a2 2 0 012-2h13v16H6a2 2 0 00-2 2z" />

@@ -1,7 +1,7 @@
 // Article endpoints: one key factory, fetchers and hooks.
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { ArticleDetail, ArticleRevisionView, ArticleSummary } from '@/shared/schemas/articles';
-import { api, ApiError } from '@/lib/api-client';
+import { api } from '@/lib/api-client';
 
 export interface ArticleFilters {
   status?: string;
@@ -18,18 +18,7 @@ export const articleKeys = {
   compare: (id: number, from: number, to: number) => [...articleKeys.all, 'compare', id, from, to] as const,
 };
 
-export const tagKeys = { list: ['tags'] as const };
-
-export interface TagView {
-  group: 'actuation' | 'component' | 'fluid';
-  slug: string;
-  label: string;
-  active: boolean;
-}
-
-export function useTags() {
-  return useQuery({ queryKey: tagKeys.list, queryFn: () => api<{ tags: TagView[] }>('/api/tags').then((r) => r.tags), staleTime: 5 * 60_000 });
-}
+export { useTags, type TagView } from '@/lib/tags';
 
 export function articlesQuery(f: ArticleFilters) {
   const p = new URLSearchParams(Object.entries(f).filter(([, v]) => v) as [string, string][]);
@@ -144,19 +133,4 @@ export function useRestoreRevision(id: number) {
   });
 }
 
-export interface UploadedFile {
-  id: string;
-  kind: 'photo' | 'document';
-  urls: Record<string, string>;
-  originalName: string;
-}
-
-/** Multipart upload; the JSON helper does not fit here. */
-export async function uploadFile(file: File): Promise<UploadedFile> {
-  const form = new FormData();
-  form.append('file', file);
-  const res = await fetch('/api/files', { method: 'POST', body: form, credentials: 'same-origin' });
-  const body = await res.json().catch(() => ({}));
-  if (!res.ok) throw new ApiError(res.status, body?.error?.code ?? 'internal', body?.error?.message ?? `Upload failed (${res.status})`, body?.error?.fields ?? {});
-  return body.file;
-}
+export { uploadFile, type UploadedFile } from '@/lib/uploads';

@@ -13,7 +13,7 @@ import { NotFoundPage } from '@/components/errors/route-error';
 import { RichTextEditor } from '@/components/rich-text/rich-text-editor';
 import { uploadFile, useArticle, useTags } from '../api/articles';
 import { fieldsFrom, readBackup, useArticleDraft, type Backup, type DraftFields, type SaveStatus } from '../hooks/use-article-draft';
-import { TagPicker } from './tag-chips';
+import { TagPicker } from '@/components/tags/tag-chips';
 
 const STATUS_WORDS: Record<SaveStatus, string> = {
   saved: 'All changes saved',

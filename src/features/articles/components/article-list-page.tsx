@@ -9,7 +9,7 @@ import { TextField } from '@/components/ui/field';
 import { PageHeader } from '@/components/ui/page';
 import { useArticles, useTags } from '../api/articles';
 import { formatDate, statusLabel, toneClass } from '../utils/labels';
-import { TagList } from './tag-chips';
+import { TagList } from '@/components/tags/tag-chips';
 
 const AUTHOR_TABS = [
   { key: 'all', label: 'All' },

@@ -14,7 +14,7 @@ import { NotFoundPage } from '@/components/errors/route-error';
 import { ApiError } from '@/lib/api-client';
 import { useArticle, useArticleAction, useTags } from '../api/articles';
 import { formatDate, statusLabel, toneClass } from '../utils/labels';
-import { TagList } from './tag-chips';
+import { TagList } from '@/components/tags/tag-chips';
 
 function CautionSummary({ articleId, hazards }: { articleId: number; hazards: string[] }) {
   const key = `beadpath.ack.article.${articleId}`;

@@ -11,10 +11,10 @@ import { Notice } from '@/components/ui/feedback';
 import { Icon } from '@/components/ui/icons';
 import { Card } from '@/components/ui/page';
 import { NotFoundPage } from '@/components/errors/route-error';
-import { useCalculation } from '../hooks/use-calculation';
-import { fromSearch, initialState, toSearch, type FormState } from '../utils/form-state';
-import { CalculatorFields } from './calculator-fields';
-import { CalculatorResults, resultText } from './calculator-results';
+import { useCalculation } from '@/components/calculator/use-calculation';
+import { fromSearch, initialState, toSearch, type FormState } from '@/components/calculator/form-state';
+import { CalculatorFields } from '@/components/calculator/calculator-fields';
+import { CalculatorResults, resultText } from '@/components/calculator/calculator-results';
 import { ReferenceList } from './reference-list';
 
 export function CalculatorPage() {

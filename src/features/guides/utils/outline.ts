@@ -88,6 +88,12 @@ export function addChild(c: Content, parentId: string, kind: StepKind = 'ask'): 
   return { content: next, selected: id };
 }
 
+/** A new step not yet reached by any branch; the caller points a branch at it. */
+export function addLooseStep(c: Content, kind: StepKind = 'ask'): { content: Content; id: string } {
+  const id = uniqueId('s', stepIds(c));
+  return { content: { ...c, steps: [...c.steps, makeStep(kind, id)] }, id };
+}
+
 export function changeKind(c: Content, stepId: string, kind: StepKind): EditResult {
   const next = clone(c);
   const i = next.steps.findIndex((s) => s.id === stepId);

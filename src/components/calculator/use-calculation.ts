@@ -3,7 +3,7 @@
 import { useMemo } from 'react';
 import { runCalculator } from '@/shared/calculators';
 import { CalculatorInputError, type CalculatorDeclaration, type CalculatorResponse } from '@/shared/calculators/types';
-import { toRequest, type FormState } from '../utils/form-state';
+import { toRequest, type FormState } from './form-state';
 
 export interface Calculation {
   result: CalculatorResponse | null;

@@ -3,7 +3,7 @@ import { useId } from 'react';
 import type { CalculatorDeclaration, InputDeclaration } from '@/shared/calculators/types';
 import { KIND_LABELS, QUANTITY_KINDS, UNITS, kindOfUnit, unitLabel, type QuantityKind, type UnitSystem } from '@/shared/units';
 import { inputClass } from '@/components/ui/field';
-import { inputKind, unitChoices, type FieldState, type FormState } from '../utils/form-state';
+import { inputKind, unitChoices, type FieldState, type FormState } from './form-state';
 
 function UnitSelect({ decl, value, system, onChange, label }: { decl: InputDeclaration; value: string; system: UnitSystem; onChange: (u: string) => void; label: string }) {
   if (decl.kind === 'any') {

@@ -1,6 +1,6 @@
 // Tag chips grouped by actuation, component and fluid: a filter for lists, a picker for editors.
 import { TAG_GROUPS, TAG_GROUP_LABELS } from '@/shared/tags';
-import type { TagView } from '../api/articles';
+import type { TagView } from '@/lib/tags';
 
 export function TagPicker({ tags, value, onChange, legend }: { tags: TagView[]; value: string[]; onChange: (v: string[]) => void; legend: string }) {
   return (

@@ -1,0 +1,386 @@
+// Walks, their answer log, notes and flags, and the guide versions they pin, as plain typed
+// objects. Guides are read from their tables directly so walks do not depend on the guides module.
+import type { Knex } from 'knex';
+import type { GuideContent } from '../../../src/shared/guides/schema';
+import type { WalkAnswerRecord, WalkEndKind, WalkFlagView, WalkMeta, WalkStatus } from '../../../src/shared/schemas/walks';
+import type { FindingOutcome, WalkAnswer } from '../../../src/shared/walks/answers';
+
+export interface WalkRow {
+  id: number;
+  organisation_id: number;
+  guide_id: number;
+  guide_version_id: number;
+  user_id: number;
+  user_name?: string | null;
+  site: string | null;
+  line: string | null;
+  applicator: string | null;
+  status: WalkStatus;
+  current_step_id: string | null;
+  ended_at_step_id: string | null;
+  end_kind: WalkEndKind | null;
+  outcome: FindingOutcome | null;
+  cause_code: string | null;
+  outcome_note: string | null;
+  answer_count: number;
+  started_at: Date;
+  ended_at: Date | null;
+  updated_at: Date;
+}
+
+export interface WalkRecord extends WalkMeta {
+  organisationId: number;
+  startedAtDate: Date;
+  endedAtDate: Date | null;
+}
+
+export function toWalk(r: WalkRow): WalkRecord {
+  return {
+    id: r.id,
+    organisationId: r.organisation_id,
+    guideId: r.guide_id,
+    guideVersionId: r.guide_version_id,
+    userId: r.user_id,
+    userName: r.user_name ?? null,
+    site: r.site,
+    line: r.line,
+    applicator: r.applicator,
+    status: r.status,
+    currentStepId: r.current_step_id,
+    endedAtStepId: r.ended_at_step_id,
+    endKind: r.end_kind,
+    outcome: r.outcome,
+    causeCode: r.cause_code,
+    outcomeNote: r.outcome_note,
+    answerCount: r.answer_count,
+    startedAt: r.started_at.toISOString(),
+    updatedAt: r.updated_at.toISOString(),
+    endedAt: r.ended_at?.toISOString() ?? null,
+    startedAtDate: r.started_at,
+    endedAtDate: r.ended_at,
+  };
+}
+
+/** The walk's public fields, without the repository's extras. */
+export function walkMeta(w: WalkRecord): WalkMeta {
+  const { organisationId: _o, startedAtDate: _s, endedAtDate: _e, ...meta } = w;
+  return meta;
+}
+
+export interface GuideForStart {
+  id: number;
+  status: 'active' | 'retired';
+  publishedVersionId: number | null;
+}
+
+export interface VersionRecord {
+  id: number;
+  guideId: number;
+  number: number;
+  state: string;
+  title: string;
+  symptom: string;
+  summary: string;
+  tags: string[];
+  content: GuideContent;
+  guideStatus: 'active' | 'retired';
+}
+
+export interface NoteRecord {
+  id: number;
+  clientId: string;
+  stepId: string;
+  text: string;
+  fileIds: string[];
+  userId: number | null;
+  userName: string | null;
+  createdAt: string;
+}
+
+export interface WalkPatch {
+  status?: WalkStatus;
+  currentStepId?: string | null;
+  endedAtStepId?: string | null;
+  endKind?: WalkEndKind | null;
+  outcome?: FindingOutcome | null;
+  causeCode?: string | null;
+  outcomeNote?: string | null;
+  answerCount?: number;
+  /** Stamps ended_at with the transaction's time. */
+  ended?: boolean;
+}
+
+const WALK_COLUMNS = ['w.*', 'u.name as user_name'];
+
+function toNote(r: {
+  id: number;
+  client_id: string;
+  step_id: string;
+  text: string;
+  file_ids: string[];
+  user_id: number | null;
+  user_name?: string | null;
+  created_at: Date;
+}): NoteRecord {
+  return {
+    id: r.id,
+    clientId: r.client_id,
+    stepId: r.step_id,
+    text: r.text,
+    fileIds: r.file_ids,
+    userId: r.user_id,
+    userName: r.user_name ?? null,
+    createdAt: r.created_at.toISOString(),
+  };
+}
+
+export const walksRepository = {
+  async guideForStart(db: Knex, organisationId: number, guideId: number): Promise<GuideForStart | undefined> {
+    // A share lock keeps the guide from being retired or republished while the walk pins its version.
+    const row = await db('guides').where({ id: guideId, organisation_id: organisationId }).forShare().first('id', 'status', 'published_version_id');
+    return row ? { id: row.id, status: row.status, publishedVersionId: row.published_version_id } : undefined;
+  },
+
+  async version(db: Knex, versionId: number): Promise<VersionRecord | undefined> {
+    const r = await db('guide_versions as v')
+      .join('guides as g', 'g.id', 'v.guide_id')
+      .where('v.id', versionId)
+      .first('v.id', 'v.guide_id', 'v.number', 'v.state', 'v.title', 'v.symptom', 'v.summary', 'v.tags', 'v.content', 'g.status as guide_status');
+    if (!r) return undefined;
+    return {
+      id: r.id,
+      guideId: r.guide_id,
+      number: r.number,
+      state: r.state,
+      title: r.title,
+      symptom: r.symptom,
+      summary: r.summary,
+      tags: r.tags,
+      content: r.content as GuideContent,
+      guideStatus: r.guide_status,
+    };
+  },
+
+  async versionsById(db: Knex, ids: number[]): Promise<Map<number, { number: number; title: string; symptom: string; content: GuideContent }>> {
+    if (!ids.length) return new Map();
+    const rows = await db('guide_versions').whereIn('id', ids).select('id', 'number', 'title', 'symptom', 'content');
+    return new Map(rows.map((r) => [r.id as number, { number: r.number, title: r.title, symptom: r.symptom, content: r.content as GuideContent }]));
+  },
+
+  async insert(
+    db: Knex,
+    row: { organisationId: number; guideId: number; guideVersionId: number; userId: number; site: string | null; line: string | null; applicator: string | null; currentStepId: string },
+  ): Promise<number> {
+    const [r] = await db('walks')
+      .insert({
+        organisation_id: row.organisationId,
+        guide_id: row.guideId,
+        guide_version_id: row.guideVersionId,
+        user_id: row.userId,
+        site: row.site,
+        line: row.line,
+        applicator: row.applicator,
+        status: 'open',
+        current_step_id: row.currentStepId,
+      })
+      .returning('id');
+    return r.id;
+  },
+
+  /** An unanswered open walk the same user started moments ago on the same version and place. */
+  async recentEmptyWalk(
+    db: Knex,
+    row: { organisationId: number; userId: number; guideVersionId: number; site: string | null; line: string | null; applicator: string | null },
+    withinSeconds: number,
+  ): Promise<number | undefined> {
+    const found = await db('walks')
+      .where({ organisation_id: row.organisationId, user_id: row.userId, guide_version_id: row.guideVersionId, status: 'open', answer_count: 0 })
+      .whereRaw('site is not distinct from ?', [row.site])
+      .whereRaw('line is not distinct from ?', [row.line])
+      .whereRaw('applicator is not distinct from ?', [row.applicator])
+      .whereRaw(`started_at > now() - make_interval(secs => ?)`, [withinSeconds])
+      .orderBy('id', 'desc')
+      .first('id');
+    return found?.id;
+  },
+
+  /** Serialises starts by one user, so two retries of one start cannot both create a walk. */
+  async lockUserStarts(db: Knex, userId: number): Promise<void> {
+    await db.raw('select pg_advisory_xact_lock(?, ?)', [0x5741_4c4b, userId]);
+  },
+
+  async find(db: Knex, organisationId: number, id: number, opts: { lock?: boolean } = {}): Promise<WalkRecord | undefined> {
+    const q = db('walks as w').leftJoin('users as u', 'u.id', 'w.user_id').where({ 'w.id': id, 'w.organisation_id': organisationId }).first(WALK_COLUMNS);
+    if (opts.lock) q.forUpdate('w');
+    const row = (await q) as WalkRow | undefined;
+    return row ? toWalk(row) : undefined;
+  },
+
+  async update(db: Knex, id: number, patch: WalkPatch): Promise<void> {
+    const set: Record<string, unknown> = { updated_at: db.fn.now() };
+    if (patch.status !== undefined) set.status = patch.status;
+    if (patch.currentStepId !== undefined) set.current_step_id = patch.currentStepId;
+    if (patch.endedAtStepId !== undefined) set.ended_at_step_id = patch.endedAtStepId;
+    if (patch.endKind !== undefined) set.end_kind = patch.endKind;
+    if (patch.outcome !== undefined) set.outcome = patch.outcome;
+    if (patch.causeCode !== undefined) set.cause_code = patch.causeCode;
+    if (patch.outcomeNote !== undefined) set.outcome_note = patch.outcomeNote;
+    if (patch.answerCount !== undefined) set.answer_count = patch.answerCount;
+    if (patch.ended) set.ended_at = db.fn.now();
+    await db('walks').where({ id }).update(set);
+  },
+
+  async answers(db: Knex, walkId: number): Promise<WalkAnswerRecord[]> {
+    const rows = await db('walk_answers').where({ walk_id: walkId }).orderBy('seq').select('seq', 'client_id', 'kind', 'step_id', 'payload', 'received_at');
+    // The payload is the entry exactly as validated on arrival; the columns are the indexed copies.
+    return rows.map((r) => ({ ...(r.payload as WalkAnswer), id: r.client_id, kind: r.kind, stepId: r.step_id, seq: r.seq, receivedAt: r.received_at.toISOString() }) as WalkAnswerRecord);
+  },
+
+  async insertAnswer(db: Knex, walkId: number, seq: number, entry: WalkAnswer): Promise<void> {
+    await db('walk_answers').insert({
+      walk_id: walkId,
+      seq,
+      client_id: entry.id,
+      kind: entry.kind,
+      step_id: entry.stepId,
+      payload: JSON.stringify(entry),
+      answered_at: entry.answeredAt,
+    });
+  },
+
+  /** The organisation's causes; empty when it has never set its own list. */
+  async causes(db: Knex, organisationId: number): Promise<{ code: string; label: string; active: boolean }[]> {
+    const rows = await db('causes').where({ organisation_id: organisationId }).orderBy(['position', 'code']).select('code', 'label', 'active');
+    return rows.map((r) => ({ code: r.code, label: r.label, active: r.active }));
+  },
+
+  async notes(db: Knex, walkId: number): Promise<NoteRecord[]> {
+    const rows = await db('walk_notes as n')
+      .leftJoin('users as u', 'u.id', 'n.user_id')
+      .where('n.walk_id', walkId)
+      .orderBy('n.id')
+      .select('n.*', 'u.name as user_name');
+    return rows.map(toNote);
+  },
+
+  async noteByClientId(db: Knex, walkId: number, clientId: string): Promise<NoteRecord | undefined> {
+    const row = await db('walk_notes as n')
+      .leftJoin('users as u', 'u.id', 'n.user_id')
+      .where({ 'n.walk_id': walkId, 'n.client_id': clientId })
+      .first('n.*', 'u.name as user_name');
+    return row ? toNote(row) : undefined;
+  },
+
+  async insertNote(db: Knex, row: { walkId: number; clientId: string; stepId: string; text: string; fileIds: string[]; userId: number }): Promise<void> {
+    await db('walk_notes').insert({
+      walk_id: row.walkId,
+      client_id: row.clientId,
+      step_id: row.stepId,
+      text: row.text,
+      file_ids: row.fileIds,
+      user_id: row.userId,
+    });
+  },
+
+  async existingFileIds(db: Knex, organisationId: number, ids: string[]): Promise<Set<string>> {
+    if (!ids.length) return new Set();
+    const rows = await db('files').where({ organisation_id: organisationId }).whereIn('id', ids).select('id');
+    return new Set(rows.map((r) => String(r.id).toLowerCase()));
+  },
+
+  async flags(db: Knex, walk: { id: number; guideId: number }): Promise<WalkFlagView[]> {
+    const rows = await db('step_flags as f')
+      .leftJoin('users as u', 'u.id', 'f.user_id')
+      // guide_id first so the (guide_id, resolved_at) index does the narrowing.
+      .where({ 'f.guide_id': walk.guideId, 'f.walk_id': walk.id })
+      .orderBy('f.id')
+      .select('f.id', 'f.step_id', 'f.comment', 'f.created_at', 'f.resolved_at', 'u.name as user_name');
+    return rows.map((r) => ({
+      id: r.id,
+      stepId: r.step_id,
+      comment: r.comment,
+      userName: r.user_name ?? null,
+      createdAt: r.created_at.toISOString(),
+      resolvedAt: r.resolved_at?.toISOString() ?? null,
+    }));
+  },
+
+  async insertFlag(
+    db: Knex,
+    row: { organisationId: number; guideId: number; guideVersionId: number; stepId: string; walkId: number; userId: number; comment: string },
+  ): Promise<number> {
+    const [r] = await db('step_flags')
+      .insert({
+        organisation_id: row.organisationId,
+        guide_id: row.guideId,
+        guide_version_id: row.guideVersionId,
+        step_id: row.stepId,
+        walk_id: row.walkId,
+        user_id: row.userId,
+        comment: row.comment,
+      })
+      .returning('id');
+    return r.id;
+  },
+
+  /**
+   * Everything a poller's copy of a walk depends on, in one indexed query: when none of it moved,
+   * the detail has not changed and need not be built.
+   */
+  async pollVersion(
+    db: Knex,
+    organisationId: number,
+    id: number,
+  ): Promise<{ userId: number; status: WalkStatus; answerCount: number; updatedAt: Date; endedAt: Date | null; notes: number; flags: number; resolvedFlags: number } | undefined> {
+    const r = await db('walks as w')
+      .where({ 'w.id': id, 'w.organisation_id': organisationId })
+      .first(
+        'w.user_id',
+        'w.status',
+        'w.answer_count',
+        'w.updated_at',
+        'w.ended_at',
+        db.raw('(select count(*)::int from walk_notes n where n.walk_id = w.id) as notes'),
+        db.raw('(select count(*)::int from step_flags f where f.guide_id = w.guide_id and f.walk_id = w.id) as flags'),
+        db.raw('(select count(*)::int from step_flags f where f.guide_id = w.guide_id and f.walk_id = w.id and f.resolved_at is not null) as resolved_flags'),
+      );
+    if (!r) return undefined;
+    return {
+      userId: r.user_id,
+      status: r.status,
+      answerCount: r.answer_count,
+      updatedAt: r.updated_at,
+      endedAt: r.ended_at,
+      notes: r.notes,
+      flags: r.flags,
+      resolvedFlags: r.resolved_flags,
+    };
+  },
+
+  async list(
+    db: Knex,
+    organisationId: number,
+    opts: { userId?: number; status: WalkStatus | 'all'; guideId?: number; limit: number },
+  ): Promise<WalkRecord[]> {
+    const q = db('walks as w')
+      .leftJoin('users as u', 'u.id', 'w.user_id')
+      .where('w.organisation_id', organisationId)
+      .select(WALK_COLUMNS)
+      .orderBy('w.updated_at', 'desc')
+      .orderBy('w.id', 'desc')
+      .limit(opts.limit);
+    if (opts.userId !== undefined) q.where('w.user_id', opts.userId);
+    if (opts.status !== 'all') q.where('w.status', opts.status);
+    if (opts.guideId !== undefined) q.where('w.guide_id', opts.guideId);
+    const rows = (await q) as WalkRow[];
+    return rows.map(toWalk);
+  },
+
+  async answersOf(db: Knex, walkIds: number[]): Promise<Map<number, WalkAnswer[]>> {
+    const byWalk = new Map<number, WalkAnswer[]>(walkIds.map((id) => [id, []]));
+    if (!walkIds.length) return byWalk;
+    const rows = await db('walk_answers').whereIn('walk_id', walkIds).orderBy(['walk_id', 'seq']).select('walk_id', 'client_id', 'kind', 'step_id', 'payload');
+    for (const r of rows) byWalk.get(r.walk_id)?.push({ ...(r.payload as WalkAnswer), id: r.client_id, kind: r.kind, stepId: r.step_id } as WalkAnswer);
+    return byWalk;
+  },
+};

@@ -1,0 +1,265 @@
+// Walking a guide on a phone: one step per screen, cautions first, the answer in one tap, the
+// saved / waiting-to-send state always visible. Colleagues who open the walk see it live.
+import { useState } from 'react';
+import { Link, useNavigate, useParams } from 'react-router';
+import { useQuery } from '@tanstack/react-query';
+import { STEP_KIND_LABELS, type Step } from '@/shared/guides';
+import { previousStepId } from '@/shared/walks';
+import type { WalkDetail } from '@/shared/schemas/walks';
+import { api, ApiError, errorMessage } from '@/lib/api-client';
+import { useMe } from '@/lib/auth';
+import { uploadFile } from '@/lib/uploads';
+import { showToast } from '@/lib/toasts';
+import { Button } from '@/components/ui/button';
+import { Dialog } from '@/components/ui/dialog';
+import { LoadingBlock, Notice } from '@/components/ui/feedback';
+import { inputClass } from '@/components/ui/field';
+import { NotFoundPage } from '@/components/errors/route-error';
+import { useAbandonWalk, useFlagStep, useWalk } from '../api/walks';
+import { useWalkRunner } from '../hooks/use-walk-runner';
+import { AskView, CautionGate, FindingView, HandoffView, MeasureView, TryView } from './step-views';
+import { StepKindIcon } from './step-kind-icon';
+import { WalkPath } from './walk-path';
+
+export function WalkRunnerPage() {
+  const id = Number(useParams().id);
+  const { data: me } = useMe();
+  const walk = useWalk(id);
+  const live = walk.data && walk.data.userId !== me?.user.id;
+  const polled = useWalk(id, { poll: Boolean(live && walk.data?.status === 'open') });
+  if (walk.isPending) return <LoadingBlock label="Opening the walk" />;
+  if (walk.isError) {
+    if (walk.error instanceof ApiError && walk.error.status === 404) return <NotFoundPage />;
+    return <Notice tone="error" title="The walk could not be opened">{errorMessage(walk.error)}</Notice>;
+  }
+  const data = polled.data ?? walk.data;
+  if (live || !data.canAnswer) return <WalkWatch walk={data} live={Boolean(live)} />;
+  return <Runner key={data.id} walk={data} />;
+}
+
+function SyncBadge({ sync, waiting }: { sync: string; waiting: number }) {
+  const words = sync === 'saved' ? 'Saved' : sync === 'sending' ? 'Sending…' : `${waiting} waiting to send`;
+  return (
+    <span role="status" aria-live="polite" data-sync={sync === 'saved' ? 'saved' : 'waiting'} className={`rounded-full px-3 py-1 text-sm font-semibold ${sync === 'saved' ? 'bg-fixed-wash text-fixed' : 'bg-amber-wash text-amber-deep'}`}>
+      {words}
+    </span>
+  );
+}
+
+function Runner({ walk }: { walk: WalkDetail }) {
+  const { data: me } = useMe();
+  const navigate = useNavigate();
+  const run = useWalkRunner(walk);
+  const causes = useQuery({ queryKey: ['causes'], queryFn: () => api<{ causes: { code: string; label: string; active: boolean }[] }>('/api/causes').then((r) => r.causes), staleTime: 300_000 });
+  const [busy, setBusy] = useState(false);
+  const [noteOpen, setNoteOpen] = useState(false);
+  const [flagOpen, setFlagOpen] = useState(false);
+  const [abandonOpen, setAbandonOpen] = useState(false);
+  const abandon = useAbandonWalk(walk.id);
+  const steps = walk.guide.content.steps as Step[];
+  const state = run.state;
+  const stepId = state.at;
+  const step = steps.find((s) => s.id === stepId);
+  const position = state.path.length;
+  const disabled = state.unacknowledged.length > 0 || state.current === null;
+  const system = me?.user.unitSystem ?? 'metric';
+  const prev = previousStepId(state);
+
+  const submit = async (a: Parameters<typeof run.answer>[0]) => {
+    setBusy(true);
+    try {
+      const problem = await run.answer(a);
+      if (!problem) window.scrollTo({ top: 0 });
+      return problem;
+    } finally {
+      setBusy(false);
+    }
+  };
+
+  if (!step) return <Notice tone="error" title="This walk points at a step its guide does not have." />;
+  const ended = state.ended !== null && (state.ended !== 'finding' || state.outcome);
+
+  return (
+    <div className="mx-auto flex max-w-xl flex-col pb-24">
+      <div className="mb-3 flex flex-wrap items-center justify-between gap-2">
+        <p className="text-sm text-ink-soft">
+          {walk.guide.title} · step {position}
+        </p>
+        <SyncBadge sync={run.sync} waiting={run.waiting} />
+      </div>
+      {run.error ? (
+        <div className="mb-3">
+          <Notice tone="error" title={run.error} />
+          <Button variant="quiet" onClick={run.clearError}>Dismiss</Button>
+        </div>
+      ) : null}
+
+      {ended ? (
+        <section className="space-y-4" aria-label="Walk ended">
+          <div className={`rounded-md border-2 p-4 ${state.outcome?.outcome === 'fixed' || state.ended === 'fixed-by-try' ? 'border-fixed bg-fixed-wash' : 'border-rule-strong bg-paper-sunk'}`}>
+            <h1 className="text-2xl font-semibold">
+              {state.ended === 'handoff' ? 'Handed off' : state.ended === 'fixed-by-try' || state.outcome?.outcome === 'fixed' ? 'Fixed' : state.outcome?.outcome === 'fixed-by-other' ? 'Fixed by something else' : 'Not fixed'}
+            </h1>
+            <p className="mt-1">{step.title}</p>
+          </div>
+          {state.ended === 'handoff' && step.kind === 'handoff' ? <HandoffView step={step} walkId={walk.id} /> : null}
+          <Link to={`/walks/${walk.id}/summary`} className="inline-flex min-h-14 w-full items-center justify-center rounded-md border border-rule-strong bg-paper-raised text-lg font-semibold">
+            See the record
+          </Link>
+          <Link to="/" className="inline-flex min-h-11 w-full items-center justify-center font-semibold text-amber-deep underline">Home</Link>
+        </section>
+      ) : (
+        <section aria-labelledby="step-title" className="space-y-4">
+          <div>
+            <p className="flex items-center gap-1 text-sm font-semibold text-ink-soft">
+              <StepKindIcon kind={step.kind} /> {STEP_KIND_LABELS[step.kind]}
+            </p>
+            <h1 id="step-title" className="text-2xl font-semibold leading-snug">{step.title}</h1>
+          </div>
+          <CautionGate
+            step={step}
+            unacknowledged={state.unacknowledged}
+            busy={busy}
+            onAcknowledge={() => void submit({ kind: 'acknowledge', stepId: step.id, cautionIds: state.unacknowledged })}
+          />
+          {step.body?.html ? <div className="prose-bp" dangerouslySetInnerHTML={{ __html: step.body.html }} /> : null}
+          {step.articleIds.length ? (
+            <p className="text-sm">
+              Read more:{' '}
+              {step.articleIds.map((a, i) => (
+                <span key={a}>{i ? ', ' : ''}<Link className="font-semibold text-amber-deep underline" to={`/articles/${a}`}>article {a}</Link></span>
+              ))}
+            </p>
+          ) : null}
+          <div className={disabled ? 'opacity-50' : ''} aria-disabled={disabled}>
+            {step.kind === 'ask' ? <AskView step={step} disabled={disabled || busy} previous={state.previousAnswer} submit={submit} /> : null}
+            {step.kind === 'measure' ? <MeasureView step={step} disabled={disabled || busy} system={system} submit={submit} /> : null}
+            {step.kind === 'try' ? <TryView step={step} disabled={disabled || busy} submit={submit} /> : null}
+            {step.kind === 'finding' ? <FindingView step={step} disabled={disabled || busy} causes={(causes.data ?? []).filter((c) => c.active)} submit={submit} /> : null}
+            {step.kind === 'handoff' ? <HandoffView step={step} walkId={walk.id} /> : null}
+          </div>
+        </section>
+      )}
+
+      <div className="mt-6 flex flex-wrap gap-2 border-t border-rule pt-4 text-sm">
+        <Button variant="secondary" onClick={() => setNoteOpen(true)}>Note or photo</Button>
+        <Button variant="quiet" onClick={() => setFlagOpen(true)}>This step is wrong or unclear</Button>
+        {!ended ? <Button variant="quiet" onClick={() => setAbandonOpen(true)}>Stop this walk</Button> : null}
+      </div>
+      <details className="mt-4">
+        <summary className="min-h-11 cursor-pointer font-semibold">The path so far</summary>
+        <WalkPath steps={steps} state={state} />
+      </details>
+
+      {prev && !ended ? (
+        <div className="fixed inset-x-0 bottom-0 z-20 border-t border-rule bg-paper/95 px-4 py-2 backdrop-blur">
+          <div className="mx-auto max-w-xl">
+            <Button variant="secondary" className="w-full" disabled={busy} onClick={() => void submit({ kind: 'back', stepId: prev })}>
+              ← Back one step
+            </Button>
+          </div>
+        </div>
+      ) : null}
+
+      <NoteDialog open={noteOpen} onClose={() => setNoteOpen(false)} onSave={async (text, fileIds) => { await run.addNote(step.id, text, fileIds); showToast('Note kept', 'ok'); }} />
+      <FlagDialog open={flagOpen} onClose={() => setFlagOpen(false)} walkId={walk.id} stepId={step.id} />
+      <Dialog open={abandonOpen} title="Stop this walk?" onClose={() => setAbandonOpen(false)}>
+        <p>The walk is kept as stopped at this step, with what you recorded.</p>
+        <div className="mt-4 flex justify-end gap-2">
+          <Button variant="secondary" onClick={() => setAbandonOpen(false)}>Carry on</Button>
+          <Button variant="danger" busy={abandon.isPending} onClick={() => abandon.mutate(undefined, { onSuccess: () => navigate('/') })}>Stop the walk</Button>
+        </div>
+      </Dialog>
+    </div>
+  );
+}
+
+function NoteDialog({ open, onClose, onSave }: { open: boolean; onClose: () => void; onSave: (text: string, fileIds: string[]) => Promise<void> }) {
+  const [text, setText] = useState('');
+  const [files, setFiles] = useState<{ id: string; url: string }[]>([]);
+  const [uploading, setUploading] = useState(false);
+  return (
+    <Dialog open={open} title="Note or photo" onClose={onClose}>
+      <div className="space-y-3">
+        <textarea aria-label="Note" className={inputClass} rows={3} value={text} onChange={(e) => setText(e.target.value)} placeholder="What you saw or did" />
+        <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold">
+          {uploading ? 'Uploading…' : 'Take or add a photo'}
+          <input
+            type="file"
+            accept="image/jpeg,image/png,image/webp"
+            capture="environment"
+            className="sr-only"
+            onChange={async (e) => {
+              const f = e.target.files?.[0];
+              e.target.value = '';
+              if (!f) return;
+              setUploading(true);
+              try {
+                const up = await uploadFile(f);
+                setFiles((x) => [...x, { id: up.id, url: up.urls.thumb }]);
+              } catch (err) {
+                showToast(`The photo was not added: ${errorMessage(err)}`, 'error');
+              } finally {
+                setUploading(false);
+              }
+            }}
+          />
+        </label>
+        <div className="flex flex-wrap gap-2">{files.map((f) => <img key={f.id} src={f.url} alt="Photo added to the note" className="size-20 rounded object-cover" />)}</div>
+        <div className="flex justify-end gap-2">
+          <Button variant="secondary" onClick={onClose}>Cancel</Button>
+          <Button
+            disabled={!text.trim() && !files.length}
+            onClick={async () => {
+              await onSave(text.trim(), files.map((f) => f.id));
+              setText('');
+              setFiles([]);
+              onClose();
+            }}
+          >
+            Keep it
+          </Button>
+        </div>
+      </div>
+    </Dialog>
+  );
+}
+
+function FlagDialog({ open, onClose, walkId, stepId }: { open: boolean; onClose: () => void; walkId: number; stepId: string }) {
+  const flag = useFlagStep(walkId);
+  const [comment, setComment] = useState('');
+  return (
+    <Dialog open={open} title="What is wrong or unclear?" onClose={onClose}>
+      <form
+        className="space-y-3"
+        onSubmit={(e) => {
+          e.preventDefault();
+          flag.mutate({ stepId, comment }, { onSuccess: () => { setComment(''); onClose(); showToast('Thank you: the guide’s authors will see it', 'ok'); } });
+        }}
+      >
+        <textarea aria-label="Comment for the authors" className={inputClass} rows={3} value={comment} onChange={(e) => setComment(e.target.value)} placeholder="e.g. the reading was 40 Ω and no band fits" />
+        {flag.isError ? <Notice tone="error" title={errorMessage(flag.error)} /> : null}
+        <div className="flex justify-end gap-2">
+          <Button variant="secondary" onClick={onClose}>Cancel</Button>
+          <Button type="submit" disabled={!comment.trim()} busy={flag.isPending}>Send to the authors</Button>
+        </div>
+      </form>
+    </Dialog>
+  );
+}
+
+function WalkWatch({ walk, live }: { walk: WalkDetail; live: boolean }) {
+  const steps = walk.guide.content.steps as Step[];
+  const at = steps.find((s) => s.id === walk.state.at);
+  return (
+    <div className="mx-auto max-w-2xl space-y-4">
+      <p className="text-sm text-ink-soft">
+        {walk.userName ?? 'A colleague'} is walking “{walk.guide.title}”{walk.site ? ` at ${walk.site}` : ''}{walk.line ? `, ${walk.line}` : ''}{walk.applicator ? `, valve ${walk.applicator}` : ''}.
+        {live && walk.status === 'open' ? ' This page follows along every few seconds.' : ''}
+      </p>
+      <h1 className="text-2xl font-semibold">{walk.status === 'open' ? `Now at: ${at?.title ?? '—'}` : walk.status === 'abandoned' ? 'Stopped' : 'Ended'}</h1>
+      <WalkPath steps={steps} state={walk.state} />
+      <Link to={`/walks/${walk.id}/summary`} className="font-semibold text-amber-deep underline">The record</Link>
+    </div>
+  );
+}

@@ -1,0 +1,122 @@
+// The phone runner's engine: the server's answer log plus what waits on this device, replayed
+// with the same path logic the server uses, so the walk moves on at once with or without signal.
+// Entries go to the server in order and are accepted once each (their ids are idempotency keys).
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { useQueryClient } from '@tanstack/react-query';
+import { canAnswer, replayPath, type WalkAnswer } from '@/shared/walks';
+import type { GuideContent } from '@/shared/guides';
+import type { BatchRejectedDetails, WalkDetail } from '@/shared/schemas/walks';
+import { ApiError } from '@/lib/api-client';
+import { sendBatch, sendNote, walkKeys } from '../api/walks';
+import { enqueue, newClientId, onQueueChange, pending, remove, type QueuedEntry } from '../utils/offline-queue';
+
+export type SyncState = 'saved' | 'sending' | 'waiting' | 'error';
+
+// Distributive, so each kind of entry keeps its own fields.
+type Without<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
+export type NewAnswer = Without<WalkAnswer, 'id' | 'answeredAt'>;
+
+export function useWalkRunner(walk: WalkDetail) {
+  const qc = useQueryClient();
+  const [queue, setQueue] = useState<QueuedEntry[]>([]);
+  const [sync, setSync] = useState<SyncState>('saved');
+  const [error, setError] = useState<string | null>(null);
+  const flushing = useRef(false);
+  const content = walk.guide.content as GuideContent;
+
+  const reload = useCallback(async () => setQueue(await pending(walk.id)), [walk.id]);
+  useEffect(() => {
+    void reload();
+    return onQueueChange(() => void reload());
+  }, [reload]);
+
+  const serverIds = useMemo(() => new Set(walk.answers.map((a) => a.id)), [walk.answers]);
+  const log: WalkAnswer[] = useMemo(() => {
+    const local = queue.filter((q) => q.type === 'answer' && !serverIds.has(q.id)).map((q) => q.body as unknown as WalkAnswer);
+    return [...(walk.answers as WalkAnswer[]), ...local];
+  }, [walk.answers, queue, serverIds]);
+  const state = useMemo(() => replayPath(content, log), [content, log]);
+
+  const flush = useCallback(async () => {
+    if (flushing.current) return;
+    flushing.current = true;
+    try {
+      const items = await pending(walk.id);
+      const answers = items.filter((i) => i.type === 'answer');
+      const notes = items.filter((i) => i.type === 'note');
+      if (!items.length) {
+        setSync('saved');
+        return;
+      }
+      setSync('sending');
+      if (answers.length) {
+        try {
+          const res = await sendBatch(walk.id, answers.map((a) => a.body));
+          for (const a of answers) await remove(a.id);
+          void res;
+        } catch (err) {
+          if (err instanceof ApiError && err.status > 0 && err.details && 'index' in err.details) {
+            // The server refused one entry: the ones before it are stored; this and later ones
+            // no longer fit the walk as the server has it, so they are dropped with a message.
+            const d = err.details as unknown as BatchRejectedDetails;
+            for (const a of answers) await remove(a.id);
+            setError(`One answer could not be saved: ${d.reason}. The walk shows what the server has.`);
+          } else if (err instanceof ApiError && err.status > 0 && err.status < 500) {
+            for (const a of answers) await remove(a.id);
+            setError(err.message);
+          } else {
+            throw err;
+          }
+        }
+      }
+      for (const n of notes) {
+        await sendNote(walk.id, n.body);
+        await remove(n.id);
+      }
+      await qc.invalidateQueries({ queryKey: walkKeys.detail(walk.id) });
+      setSync('saved');
+    } catch {
+      setSync('waiting');
+    } finally {
+      flushing.current = false;
+    }
+  }, [walk.id, qc]);
+
+  // Send on start, when the connection returns, and every 15 s while anything waits.
+  useEffect(() => {
+    void flush();
+    const online = () => void flush();
+    window.addEventListener('online', online);
+    return () => window.removeEventListener('online', online);
+  }, [flush]);
+  useEffect(() => {
+    if (!queue.length) return;
+    const t = setInterval(() => void flush(), 15_000);
+    return () => clearInterval(t);
+  }, [queue.length, flush]);
+
+  const answer = useCallback(
+    async (partial: NewAnswer): Promise<string | null> => {
+      const entry = { ...partial, id: newClientId(), answeredAt: new Date().toISOString() } as WalkAnswer;
+      const check = canAnswer(content, log, entry);
+      if (!check.ok) return check.message;
+      await enqueue({ id: entry.id, walkId: walk.id, type: 'answer', body: entry as unknown as Record<string, unknown>, queuedAt: Date.now() });
+      setError(null);
+      void flush();
+      return null;
+    },
+    [content, log, walk.id, flush],
+  );
+
+  const addNote = useCallback(
+    async (stepId: string, text: string, fileIds: string[]) => {
+      const id = newClientId();
+      await enqueue({ id, walkId: walk.id, type: 'note', body: { clientId: id, stepId, text, fileIds }, queuedAt: Date.now() });
+      void flush();
+    },
+    [walk.id, flush],
+  );
+
+  const waiting = queue.filter((q) => !serverIds.has(q.id)).length;
+  return { state, log, answer, addNote, sync: waiting ? (sync === 'sending' ? 'sending' : 'waiting') : sync, waiting, error, clearError: () => setError(null), flush };
+}
