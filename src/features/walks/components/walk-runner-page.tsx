@@ -33,7 +33,7 @@ export function WalkRunnerPage() {
     return <Notice tone="error" title="The walk could not be opened">{errorMessage(walk.error)}</Notice>;
   }
   const data = polled.data ?? walk.data;
-  if (live || !data.canAnswer) return <WalkWatch walk={data} live={Boolean(live)} />;
+  if (live || data.status === 'abandoned') return <WalkWatch walk={data} live={Boolean(live)} />;
   return <Runner key={data.id} walk={data} />;
 }
 
@@ -61,7 +61,9 @@ function Runner({ walk }: { walk: WalkDetail }) {
   const stepId = state.at;
   const step = steps.find((s) => s.id === stepId);
   const position = state.path.length;
-  const disabled = state.unacknowledged.length > 0 || state.current === null;
+  // A Finding waits for its outcome although the path already ends there.
+  const awaitingOutcome = state.ended === 'finding' && !state.outcome;
+  const disabled = state.unacknowledged.length > 0 || (state.current === null && !awaitingOutcome);
   const system = me?.user.unitSystem ?? 'metric';
   const prev = previousStepId(state);
 
@@ -132,10 +134,10 @@ function Runner({ walk }: { walk: WalkDetail }) {
             </p>
           ) : null}
           <div className={disabled ? 'opacity-50' : ''} aria-disabled={disabled}>
-            {step.kind === 'ask' ? <AskView step={step} disabled={disabled || busy} previous={state.previousAnswer} submit={submit} /> : null}
-            {step.kind === 'measure' ? <MeasureView step={step} disabled={disabled || busy} system={system} submit={submit} /> : null}
-            {step.kind === 'try' ? <TryView step={step} disabled={disabled || busy} submit={submit} /> : null}
-            {step.kind === 'finding' ? <FindingView step={step} disabled={disabled || busy} causes={(causes.data ?? []).filter((c) => c.active)} submit={submit} /> : null}
+            {step.kind === 'ask' ? <AskView key={step.id} step={step} disabled={disabled || busy} previous={state.previousAnswer} submit={submit} /> : null}
+            {step.kind === 'measure' ? <MeasureView key={step.id} step={step} disabled={disabled || busy} system={system} submit={submit} /> : null}
+            {step.kind === 'try' ? <TryView key={step.id} step={step} disabled={disabled || busy} submit={submit} /> : null}
+            {step.kind === 'finding' ? <FindingView key={step.id} step={step} disabled={disabled || busy} causes={(causes.data ?? []).filter((c) => c.active)} submit={submit} /> : null}
             {step.kind === 'handoff' ? <HandoffView step={step} walkId={walk.id} /> : null}
           </div>
         </section>
