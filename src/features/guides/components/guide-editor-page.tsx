@@ -215,10 +215,9 @@ function Editor({ guide }: { guide: GuideDetail }) {
               flags={guide.flags?.[step.id] ?? []}
               onChange={(s: DraftStep, key) => d.change({ meta, content: updateStep(content, s) }, key)}
               onKind={(k) => apply(changeKind(content, step.id, k))}
-              onNewTarget={() => {
+              onNewTarget={(withTarget) => {
                 const r = addLooseStep(content);
-                d.change({ meta, content: r.content });
-                return r.id;
+                d.change({ meta, content: updateStep(r.content, withTarget(r.id)) });
               }}
               onMakeStart={() => d.change({ meta, content: { ...content, startStepId: step.id } })}
               onDelete={() => {

@@ -35,7 +35,8 @@ export interface StepFormProps {
   flags: { id: number; comment: string; userName: string | null; createdAt: string }[];
   onChange: (step: Step, key?: string) => void;
   onKind: (kind: Kind) => void;
-  onNewTarget: () => string;
+  /** Adds a new step and applies `withTarget(newId)` to this step in the same edit. */
+  onNewTarget: (withTarget: (id: string) => Step) => void;
   onMakeStart: () => void;
   onDelete: () => void;
   upload: (file: File) => Promise<string>;
@@ -47,7 +48,8 @@ export function StepForm(props: StepFormProps) {
   const others = steps.filter((s) => s.id !== step.id);
 
   // Called as a function, not rendered as a component, so the select keeps its identity between renders.
-  function renderNext({ value, onPick, label, allowEnd }: { value: string | null; onPick: (v: string | null) => void; label: string; allowEnd?: string }) {
+  // `pick` says how the step changes for a target; a new target step is created in the same edit.
+  function renderNext({ value, pick, label, allowEnd }: { value: string | null; pick: (v: string | null) => Partial<Step>; label: string; allowEnd?: string }) {
     return (
       <select
         aria-label={label}
@@ -55,8 +57,8 @@ export function StepForm(props: StepFormProps) {
         value={value === null ? '__end' : value}
         onChange={(e) => {
           const v = e.target.value;
-          if (v === '__new') onPick(props.onNewTarget());
-          else onPick(v === '__end' ? null : v);
+          if (v === '__new') props.onNewTarget((id) => ({ ...step, ...pick(id) }) as Step);
+          else set(pick(v === '__end' ? null : v));
         }}
       >
         <option value="">— choose the next step —</option>
@@ -118,7 +120,7 @@ export function StepForm(props: StepFormProps) {
           {step.choices.map((c, i) => (
             <div key={c.id} className="grid grid-cols-[1fr_1fr_auto] gap-2">
               <input aria-label={`Answer ${i + 1}`} className={inputClass} value={c.label} onChange={(e) => set({ choices: step.choices.map((x, k) => (k === i ? { ...x, label: e.target.value } : x)) }, `choice.${i}`)} />
-              {renderNext({ label: `Next step after “${c.label || `answer ${i + 1}`}”`, value: c.next, onPick: (v) => set({ choices: step.choices.map((x, k) => (k === i ? { ...x, next: v ?? '' } : x)) }) })}
+              {renderNext({ label: `Next step after “${c.label || `answer ${i + 1}`}”`, value: c.next, pick: (v) => ({ choices: step.choices.map((x, k) => (k === i ? { ...x, next: v ?? '' } : x)) }) })}
               <Button variant="quiet" aria-label={`Remove answer ${i + 1}`} onClick={() => set({ choices: step.choices.filter((_, k) => k !== i) })}>✕</Button>
             </div>
           ))}
@@ -132,8 +134,8 @@ export function StepForm(props: StepFormProps) {
         <>
           <Field label="What to do">{(id) => <textarea id={id} className={inputClass} rows={3} value={step.action} onChange={(e) => set({ action: e.target.value }, 'action')} />}</Field>
           <div className="grid gap-3 sm:grid-cols-2">
-            <Field label="When it fixed the fault">{() => renderNext({ label: "Next step when fixed", value: step.fixedNext, allowEnd: "The walk ends: fixed", onPick: (v) => set({ fixedNext: v }) })}</Field>
-            <Field label="When it did not">{() => renderNext({ label: "Next step when not fixed", value: step.notFixedNext, onPick: (v) => set({ notFixedNext: v ?? '' }) })}</Field>
+            <Field label="When it fixed the fault">{() => renderNext({ label: "Next step when fixed", value: step.fixedNext, allowEnd: "The walk ends: fixed", pick: (v) => ({ fixedNext: v }) })}</Field>
+            <Field label="When it did not">{() => renderNext({ label: "Next step when not fixed", value: step.notFixedNext, pick: (v) => ({ notFixedNext: v ?? '' }) })}</Field>
           </div>
         </>
       ) : null}
@@ -243,7 +245,7 @@ function MeasureFields({
 }: {
   step: MeasureStep;
   set: (patch: Partial<Step>, key?: string) => void;
-  renderNext: (p: { value: string | null; onPick: (v: string | null) => void; label: string }) => React.JSX.Element;
+  renderNext: (p: { value: string | null; pick: (v: string | null) => Partial<Step>; label: string }) => React.JSX.Element;
 }) {
   const calculators = listCalculators();
   const calc = calculators.find((c) => c.id === step.calculator?.id);
@@ -405,7 +407,7 @@ function MeasureFields({
                 <label className="flex items-center gap-1"><input type="checkbox" checked={b.maxInclusive} onChange={(e) => put({ maxInclusive: e.target.checked })} /> (incl.)</label>
                 <span className="text-ink-soft">{describeBand(b, step.bandUnit)}</span>
               </div>
-              {renderNext({ label: `Next step for band “${b.label || i + 1}”`, value: b.next, onPick: (v) => put({ next: v ?? '' }) })}
+              {renderNext({ label: `Next step for band “${b.label || i + 1}”`, value: b.next, pick: (v) => ({ bands: step.bands.map((x, k) => (k === i ? { ...x, next: v ?? '' } : x)) }) })}
             </div>
           );
         })}
