@@ -31,6 +31,8 @@ import { createTagsService } from './modules/tags/tags.service';
 import { localStorage } from './lib/storage';
 import { guidesRoutes } from './modules/guides/guides.routes';
 import { walksRoutes } from './modules/walks/walks.routes';
+import { searchRoutes } from './modules/search/search.routes';
+import { assetsRoutes } from './modules/assets/assets.routes';
 
 export interface AppDeps {
   db: Knex;
@@ -114,6 +116,8 @@ export function createApp(deps: AppDeps): BeadpathApp {
     articlesRoutes({ articles: createArticlesService({ db, tags, files }) }),
     ...guidesRoutes({ db, tags, files }),
     ...walksRoutes({ db, files }),
+    ...searchRoutes({ db, config, logger }),
+    ...assetsRoutes({ db, files }),
   ];
   app.use('/api', api);
   for (const r of routers) if (r !== health) app.use(r.base, r.router);

@@ -20,6 +20,8 @@ import { GuideEditorPage } from '@/features/guides/components/guide-editor-page'
 import { WalkStartPage } from '@/features/walks/components/walk-start-page';
 import { WalkRunnerPage } from '@/features/walks/components/walk-runner-page';
 import { WalkSummaryPage } from '@/features/walks/components/walk-summary-page';
+import { SearchAdminPage, SearchPage } from '@/features/search/components/search-page';
+import { AssetsRoutes } from '@/features/assets/components/assets-routes';
 import { HomeRoute } from './routes/home';
 import { RequirePermission } from './require-permission';
 
@@ -48,6 +50,9 @@ export const router = createBrowserRouter([
           { path: paths.guideWalk(), element: <RequirePermission permission="walks:run"><WalkStartPage /></RequirePermission> },
           { path: paths.walk(), element: <WalkRunnerPage /> },
           { path: paths.walkSummary(), element: <WalkSummaryPage /> },
+          { path: paths.search, element: <RequirePermission permission="search:use"><SearchPage /></RequirePermission> },
+          { path: paths.adminSearch, element: <RequirePermission permission="search:admin"><SearchAdminPage /></RequirePermission> },
+          { path: `${paths.applicators}/*`, element: <RequirePermission permission="assets:read"><AssetsRoutes /></RequirePermission> },
           { path: paths.adminSettings, element: <RequirePermission permission="settings:manage"><SettingsPage /></RequirePermission> },
           { path: paths.adminUsers, element: <RequirePermission permission="users:manage"><UsersPage /></RequirePermission> },
           { path: '*', element: <NotFoundPage /> },

@@ -37,6 +37,16 @@ export const PERMISSIONS = {
   'walks:view-others': ['support', 'manager', 'author', 'admin'],
   /** Flag a step as wrong or unclear. */
   'guides:flag': ['technician', 'support', 'author'],
+  /** Search guides and articles. */
+  'search:use': everyone,
+  /** See the search engine's state, edit trade synonyms, rebuild the index. */
+  'search:admin': ['admin'],
+  /** See sites, lines, applicators, their counters and service history. */
+  'assets:read': everyone,
+  /** Create and edit sites, lines and applicators; import them from CSV; print labels. */
+  'assets:manage': ['admin', 'author'],
+  /** Add counter readings and service events. */
+  'assets:record': ['admin', 'author', 'technician'],
   /** Upload photos and documents (articles, walks, cases). */
   'files:upload': ['admin', 'author', 'technician', 'support'],
   /** Edit the organisation's tag lists. */

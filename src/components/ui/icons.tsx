@@ -37,6 +37,20 @@ export const Icon = {
       <path d="M6 7v10M8 5c6 0 8 3 8 5M8 19c6 0 8-3 8-5" />
     </Svg>
   ),
+  /** A dispensing valve: body, needle and a dot below the nozzle. */
+  valve: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <rect x="7" y="3" width="10" height="11" rx="2" />
+      <path d="M12 14v4M10 18h4" />
+      <circle cx="12" cy="21" r="1" fill="currentColor" />
+    </Svg>
+  ),
+  search: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <circle cx="11" cy="11" r="6" />
+      <path d="M20 20l-4.5-4.5" />
+    </Svg>
+  ),
   book: (p: SVGProps<SVGSVGElement>) => (
     <Svg {...p}>
       <path d="M4 5a2 2 0 012-2h13v16H6a2 2 0 00-2 2z" />
