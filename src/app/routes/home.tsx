@@ -12,11 +12,12 @@ import { ButtonLink } from '@/components/ui/button';
 import { ArticleShortList } from '@/features/articles/components/article-short-list';
 import { OpenWalks } from '@/features/walks/components/open-walks';
 import { SymptomChips } from '@/features/guides/components/symptom-chips';
+import { GuideFeedback } from '@/features/guides/components/guide-feedback';
 
 const LEADS: Record<Role, string> = {
-  technician: 'Work out readings on the line: coil resistance, opening force, shot size, placement and service dates.',
+  technician: 'Tap what you see to walk its guide, or work out a reading with a calculator.',
   author: 'Reviews waiting for you, your drafts, and the numbers to check before you write them down.',
-  support: 'Work through a caller\u2019s numbers with them.',
+  support: 'Walk a guide with a caller, and work through their numbers with them.',
   manager: 'Forecast seat, needle and seal service from cycle counts, and fit failure data.',
   admin: 'Set Beadpath up for your organisation.',
 };
@@ -52,8 +53,10 @@ export function HomeRoute() {
       {current === 'author' ? (
         <div className="space-y-4">
           <div className="flex flex-wrap gap-2">
-            <ButtonLink to={paths.articleNew}>New article</ButtonLink>
+            <ButtonLink to={paths.guides}>Guides</ButtonLink>
+            <ButtonLink variant="secondary" to={paths.articleNew}>New article</ButtonLink>
           </div>
+          <GuideFeedback />
           <div className="grid gap-4 lg:grid-cols-2">
             <ArticleShortList title="Waiting for your review" filters={{ status: 'review-queue' }} empty="No article is waiting for your review." />
             <ArticleShortList title="Your articles" filters={{ status: 'all', mine: '1' }} empty="You have not written an article yet." />

@@ -18,7 +18,7 @@ export function SymptomChips() {
             .filter((g) => g.publishedVersion && g.status === 'active')
             .map((g) => (
               <li key={g.id}>
-                <Link to={`/guides/${g.id}/walk`} className="inline-flex min-h-14 items-center rounded-full border-2 border-amber-line bg-paper-raised px-5 text-lg font-semibold hover:bg-amber-wash">
+                <Link to={`/guides/${g.id}/walk`} className="inline-flex min-h-14 items-center rounded-2xl border-2 border-amber-line bg-paper-raised px-5 text-lg font-semibold hover:bg-amber-wash">
                   {g.symptom}
                 </Link>
               </li>
