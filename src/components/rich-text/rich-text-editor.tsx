@@ -18,6 +18,8 @@ export interface RichTextEditorProps {
   upload: (file: File) => Promise<string>;
   label: string;
   placeholder?: string;
+  /** Uploads a document (a PDF manual or safety data sheet) and answers where to link to it. */
+  attach?: (file: File) => Promise<{ href: string; name: string }>;
 }
 
 function ToolButton({ onClick, active, disabled, label, children }: { onClick: () => void; active?: boolean; disabled?: boolean; label: string; children: ReactNode }) {
@@ -39,7 +41,8 @@ function ToolButton({ onClick, active, disabled, label, children }: { onClick: (
 
 const IMAGE_TYPES = ['image/jpeg', 'image/png', 'image/webp'];
 
-export function RichTextEditor({ value, onChange, upload, label }: RichTextEditorProps) {
+export function RichTextEditor({ value, onChange, upload, label, attach }: RichTextEditorProps) {
+  const docInput = useRef<HTMLInputElement>(null);
   const [pendingImage, setPendingImage] = useState<{ file: File; pos?: number } | null>(null);
   const [alt, setAlt] = useState('');
   const [uploading, setUploading] = useState(false);
@@ -149,6 +152,7 @@ export function RichTextEditor({ value, onChange, upload, label }: RichTextEdito
           Link
         </ToolButton>
         <ToolButton label="Photo" onClick={() => fileInput.current?.click()}>Photo</ToolButton>
+        {attach ? <ToolButton label="Attach a PDF" onClick={() => docInput.current?.click()}>PDF</ToolButton> : null}
         <ToolButton label="Table" active={state.table} onClick={() => editor.chain().focus().insertTable({ rows: 3, cols: 3, withHeaderRow: true }).run()}>Table</ToolButton>
         {state.table ? (
           <>
@@ -163,6 +167,30 @@ export function RichTextEditor({ value, onChange, upload, label }: RichTextEdito
         <span className="mx-1 w-px bg-rule" aria-hidden />
         <ToolButton label="Undo" disabled={!state.canUndo} onClick={() => editor.chain().focus().undo().run()}>Undo</ToolButton>
         <ToolButton label="Redo" disabled={!state.canRedo} onClick={() => editor.chain().focus().redo().run()}>Redo</ToolButton>
+        {attach ? (
+          <input
+            ref={docInput}
+            type="file"
+            accept="application/pdf"
+            className="hidden"
+            aria-label="Choose a PDF"
+            onChange={async (e) => {
+              const f = e.target.files?.[0];
+              e.target.value = '';
+              if (!f) return;
+              try {
+                const { href, name } = await attach(f);
+                editor
+                  .chain()
+                  .focus()
+                  .insertContent([{ type: 'text', text: `${name} (PDF)`, marks: [{ type: 'link', attrs: { href } }] }, { type: 'text', text: ' ' }])
+                  .run();
+              } catch (err) {
+                showToast(`The document was not attached: ${errorMessage(err)}`, 'error');
+              }
+            }}
+          />
+        ) : null}
         <input
           ref={fileInput}
           type="file"

@@ -41,3 +41,26 @@ export function useSaveTags() {
     },
   });
 }
+
+export interface AdminCause {
+  code: string;
+  label: string;
+  component: string | null;
+  active: boolean;
+}
+
+export function useAdminCauses() {
+  return useQuery({ queryKey: ['causes', 'all'], queryFn: () => api<{ causes: AdminCause[] }>('/api/causes?includeInactive=1').then((r) => r.causes) });
+}
+
+export function useSaveCauses() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (causes: AdminCause[]) =>
+      api<{ causes: AdminCause[] }>('/api/causes', { method: 'PUT', body: { causes: causes.filter((c) => c.active).map(({ code, label, component }) => ({ code, label, component })) } }).then((r) => r.causes),
+    onSuccess: (c) => {
+      qc.setQueryData(['causes', 'all'], c);
+      qc.invalidateQueries({ queryKey: ['causes'] });
+    },
+  });
+}

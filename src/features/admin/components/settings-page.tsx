@@ -7,7 +7,53 @@ import { Button } from '@/components/ui/button';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
 import { TextField } from '@/components/ui/field';
 import { Card, PageHeader } from '@/components/ui/page';
-import { useAdminTags, useSaveSettings, useSaveTags, useSettings, type AdminTag } from '../api/settings';
+import { useAdminCauses, useAdminTags, useSaveCauses, useSaveSettings, useSaveTags, useSettings, type AdminCause, type AdminTag } from '../api/settings';
+
+function CauseEditor() {
+  const causes = useAdminCauses();
+  const save = useSaveCauses();
+  const [list, setList] = useState<AdminCause[] | null>(null);
+  const [label, setLabel] = useState('');
+  useEffect(() => {
+    if (causes.data && !list) setList(causes.data);
+  }, [causes.data, list]);
+  if (causes.isPending || !list) return <LoadingBlock label="Loading causes" />;
+  if (causes.isError) return <Notice tone="error" title="Causes could not be loaded" />;
+  return (
+    <Card>
+      <h2 className="text-lg font-semibold">Causes</h2>
+      <p className="mt-1 text-ink-soft">Every Finding in every guide names one of these, so recurring causes can be counted across guides. A cause turned off stays on old findings and walks.</p>
+      <ul className="mt-3 space-y-1">
+        {list.map((c, i) => (
+          <li key={c.code} className="flex flex-wrap items-center gap-2">
+            <label className="flex min-h-11 flex-1 items-center gap-2">
+              <input type="checkbox" className="size-4" checked={c.active} onChange={() => setList(list.map((x, k) => (k === i ? { ...x, active: !x.active } : x)))} />
+              <input aria-label={`Cause ${c.code}`} className="min-h-11 flex-1 rounded-md border border-rule-strong bg-paper-raised px-2" value={c.label} onChange={(e) => setList(list.map((x, k) => (k === i ? { ...x, label: e.target.value } : x)))} />
+            </label>
+            <code className="text-xs text-ink-soft">{c.code}</code>
+          </li>
+        ))}
+      </ul>
+      <form
+        className="mt-3 flex gap-2"
+        onSubmit={(e) => {
+          e.preventDefault();
+          const code = slugify(label);
+          if (!code) return;
+          if (list.some((c) => c.code === code)) return showToast(`“${label}” is already a cause`, 'error');
+          setList([...list, { code, label: label.trim(), component: null, active: true }]);
+          setLabel('');
+        }}
+      >
+        <TextField label="New cause" className="flex-1" value={label} onChange={(e) => setLabel(e.target.value)} />
+        <Button type="submit" variant="secondary" className="self-end">Add</Button>
+      </form>
+      <Button className="mt-4" busy={save.isPending} onClick={() => save.mutate(list, { onSuccess: (c) => { setList(c); showToast('Causes saved', 'ok'); } })}>
+        Save causes
+      </Button>
+    </Card>
+  );
+}
 
 function TagEditor() {
   const tags = useAdminTags();
@@ -93,6 +139,7 @@ export function SettingsPage() {
           </Card>
         )}
         <TagEditor />
+        <CauseEditor />
       </div>
     </div>
   );

@@ -128,6 +128,10 @@ function Editor({ article }: { article: ArticleDetail | null }) {
             value={fields.body}
             onChange={(body) => update({ body })}
             upload={async (file) => (await uploadFile(file)).urls.display}
+            attach={async (file) => {
+              const f = await uploadFile(file);
+              return { href: f.urls.original, name: f.originalName.replace(/\.pdf$/i, '') };
+            }}
           />
           {draft.fieldErrors.body ? <p className="mt-1 text-sm font-semibold text-danger">{draft.fieldErrors.body}</p> : null}
         </div>

@@ -99,3 +99,23 @@ export function usePublishedArticles() {
     staleTime: 60_000,
   });
 }
+
+export interface GuideWalkOutcome {
+  id: number;
+  userName: string | null;
+  outcome: string | null;
+  outcomeNote: string | null;
+  causeCode: string | null;
+  endedAt: string | null;
+  line: string | null;
+  versionNumber: number;
+}
+
+/** Ended walks of a guide, for its authors to see where it did not lead to a fix. */
+export function useGuideWalkOutcomes(guideId: number, enabled: boolean) {
+  return useQuery({
+    queryKey: ['walks', 'list', { guideId: String(guideId), status: 'ended' }],
+    queryFn: () => api<{ walks: GuideWalkOutcome[] }>(`/api/walks?guideId=${guideId}&status=ended&mine=0`).then((r) => r.walks),
+    enabled,
+  });
+}

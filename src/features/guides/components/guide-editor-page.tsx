@@ -15,7 +15,7 @@ import { NotFoundPage } from '@/components/errors/route-error';
 import { useTags } from '@/lib/tags';
 import { uploadFile } from '@/lib/uploads';
 import { TagPicker } from '@/components/tags/tag-chips';
-import { useCauses, useGuide, useGuideAction, usePublishedArticles } from '../api/guides';
+import { useCauses, useGuide, useGuideAction, useGuideComparison, usePublishedArticles } from '../api/guides';
 import { readGuideBackup, clearGuideBackup, useGuideDraft, type GuideSaveStatus } from '../hooks/use-guide-draft';
 import { addChild, addLooseStep, changeKind, deleteStep, moveBranch, updateStep } from '../utils/outline';
 import { GuideMap } from './guide-map';
@@ -58,6 +58,15 @@ function Editor({ guide }: { guide: GuideDetail }) {
   const submit = useGuideAction(guide.id);
   const [selected, setSelected] = useState<string | null>(d.value.content.startStepId || null);
   const [view, setView] = useState<'outline' | 'map'>('outline');
+  const [showChanges, setShowChanges] = useState(false);
+  const comparison = useGuideComparison(guide.id, 'published', 'draft', showChanges && Boolean(guide.published) && Boolean(guide.draft));
+  const changes = useMemo(() => {
+    if (!showChanges || !comparison.data) return undefined;
+    const m = new Map<string, 'added' | 'changed'>();
+    for (const s of comparison.data.steps.added) m.set(s.id, 'added');
+    for (const s of comparison.data.steps.changed) m.set(s.id, 'changed');
+    return m;
+  }, [showChanges, comparison.data]);
   const [backup, setBackup] = useState(() => {
     const b = readGuideBackup(guide.id);
     return b && JSON.stringify(b.draft) !== JSON.stringify(d.value) ? b : null;
@@ -164,6 +173,7 @@ function Editor({ guide }: { guide: GuideDetail }) {
 
       <div className="grid gap-4 xl:grid-cols-[minmax(20rem,28rem)_1fr]">
         <section aria-label="Steps" className="space-y-3">
+          <div className="flex flex-wrap items-center justify-between gap-2">
           <div role="tablist" aria-label="Show the steps as" className="flex gap-1">
             {(['outline', 'map'] as const).map((v) => (
               <button key={v} role="tab" aria-selected={view === v} onClick={() => setView(v)} className={`min-h-11 rounded-md px-3 font-semibold ${view === v ? 'bg-amber-wash text-amber-deep' : 'text-ink-soft hover:bg-paper-sunk'}`}>
@@ -171,6 +181,16 @@ function Editor({ guide }: { guide: GuideDetail }) {
               </button>
             ))}
           </div>
+          {guide.published ? (
+            <label className="flex min-h-11 items-center gap-2 text-sm">
+              <input type="checkbox" className="size-5" checked={showChanges} onChange={(e) => setShowChanges(e.target.checked)} />
+              Mark changes since version {guide.published.number}
+            </label>
+          ) : null}
+          </div>
+          {showChanges && comparison.data && comparison.data.steps.removed.length ? (
+            <p className="text-sm text-ink-soft">Removed since version {guide.published?.number}: {comparison.data.steps.removed.map((r) => r.title || r.id).join('; ')}</p>
+          ) : null}
           <div className="rounded-lg border border-rule bg-paper-raised p-3">
             {view === 'outline' ? (
               <GuideOutline
@@ -178,6 +198,7 @@ function Editor({ guide }: { guide: GuideDetail }) {
                 selected={selected}
                 problems={validation.errors}
                 flags={flagCounts}
+                changes={changes}
                 actions={{
                   select: setSelected,
                   addChild: (pid) => apply(addChild(content, pid)),

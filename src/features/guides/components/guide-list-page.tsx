@@ -1,6 +1,10 @@
 // Guides: authors see every guide with its state, problems and feedback; everyone else the
 // published guides by symptom, one tap from a walk.
-import { useRef, useState, type FormEvent } from 'react';
+import { useRef, useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import type { z } from 'zod';
+import { GuideMetaInput } from '@/shared/schemas/guides';
 import { Link, useNavigate, useSearchParams } from 'react-router';
 import { useCan } from '@/lib/auth';
 import { useTags } from '@/lib/tags';
@@ -30,25 +34,32 @@ function stateWords(g: GuideListItem): { text: string; tone: string } {
   return { text: `Published v${g.publishedVersion}`, tone: 'bg-fixed-wash text-fixed' };
 }
 
+const NewGuideForm = GuideMetaInput.pick({ title: true, symptom: true });
+type NewGuideForm = z.input<typeof NewGuideForm>;
+
 function NewGuideDialog({ open, onClose }: { open: boolean; onClose: () => void }) {
   const create = useCreateGuide();
   const navigate = useNavigate();
-  const [title, setTitle] = useState('');
-  const [symptom, setSymptom] = useState('');
-  const [fields, setFields] = useState<Record<string, string>>({});
-  function submit(e: FormEvent) {
-    e.preventDefault();
+  // The same schema the server validates with, so the form says what the server would.
+  const form = useForm<NewGuideForm, unknown, z.output<typeof NewGuideForm>>({ resolver: zodResolver(NewGuideForm), defaultValues: { title: '', symptom: '' } });
+  const submit = form.handleSubmit((values) =>
     create.mutate(
-      { title, symptom, summary: '', tags: [] },
-      { onSuccess: (g) => navigate(`/guides/${g.id}/edit`), onError: (err) => setFields(err instanceof ApiError ? err.fields : {}) },
-    );
-  }
+      { ...values, summary: '', tags: [] },
+      {
+        onSuccess: (g) => navigate(`/guides/${g.id}/edit`),
+        onError: (err) => {
+          if (err instanceof ApiError) for (const [k, v] of Object.entries(err.fields)) form.setError(k as keyof NewGuideForm, { message: v });
+        },
+      },
+    ),
+  );
+  const errors = form.formState.errors;
   return (
     <Dialog open={open} title="New guide" onClose={onClose}>
-      <form onSubmit={submit} className="space-y-4">
-        {create.isError && !Object.keys(fields).length ? <Notice tone="error" title={errorMessage(create.error)} /> : null}
-        <TextField label="Symptom it starts from" value={symptom} onChange={(e) => setSymptom(e.target.value)} error={fields.symptom} placeholder="Drips after the valve closes" autoFocus />
-        <TextField label="Title" value={title} onChange={(e) => setTitle(e.target.value)} error={fields.title} placeholder="Drips after close on electric valves" />
+      <form onSubmit={submit} noValidate className="space-y-4">
+        {create.isError && !Object.keys(errors).length ? <Notice tone="error" title={errorMessage(create.error)} /> : null}
+        <TextField label="Symptom it starts from" {...form.register('symptom')} error={errors.symptom?.message} placeholder="Drips after the valve closes" autoFocus />
+        <TextField label="Title" {...form.register('title')} error={errors.title?.message} placeholder="Drips after close on electric valves" />
         <div className="flex justify-end gap-2">
           <Button variant="secondary" onClick={onClose}>Cancel</Button>
           <Button type="submit" busy={create.isPending}>Create and edit</Button>

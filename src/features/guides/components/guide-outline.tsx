@@ -14,7 +14,22 @@ export interface OutlineActions {
   move: (parentId: string, index: number, by: -1 | 1) => void;
 }
 
-export function GuideOutline({ content, selected, problems, flags, actions }: { content: Content; selected: string | null; problems: GuideProblem[]; flags: Record<string, number>; actions: OutlineActions }) {
+export function GuideOutline({
+  content,
+  selected,
+  problems,
+  flags,
+  changes,
+  actions,
+}: {
+  content: Content;
+  selected: string | null;
+  problems: GuideProblem[];
+  flags: Record<string, number>;
+  /** Steps added or changed since the published version, when the author asks to see them. */
+  changes?: Map<string, 'added' | 'changed'>;
+  actions: OutlineActions;
+}) {
   const [collapsed, setCollapsed] = useState<Set<string>>(new Set());
   const [filter, setFilter] = useState('');
   const { rows, unconnected } = useMemo(() => outlineRows(content, collapsed), [content, collapsed]);
@@ -93,6 +108,11 @@ export function GuideOutline({ content, selected, problems, flags, actions }: { 
                   {row.repeat ? `goes to “${s.title || s.id}”` : s.title || <span className="text-ink-faint">Untitled {s.kind} step</span>}
                 </span>
                 {content.startStepId === s.id ? <span className="rounded bg-paper-sunk px-1 text-xs">start</span> : null}
+                {changes?.get(s.id) ? (
+                  <span className={`rounded px-1 text-xs font-semibold ${changes.get(s.id) === 'added' ? 'bg-fixed-wash text-fixed' : 'bg-amber-wash text-amber-deep'}`}>
+                    {changes.get(s.id) === 'added' ? 'new' : 'changed'}
+                  </span>
+                ) : null}
                 {flags[s.id] ? <span className="rounded bg-amber-wash px-1 text-xs text-amber-deep" title="Technicians flagged this step">⚑ {flags[s.id]}</span> : null}
                 {nProblems ? <span className="rounded bg-danger-wash px-1 text-xs font-semibold text-danger-deep">{nProblems} to fix</span> : null}
               </div>

@@ -15,7 +15,7 @@ import { Card } from '@/components/ui/page';
 import { TagList } from '@/components/tags/tag-chips';
 import { NotFoundPage } from '@/components/errors/route-error';
 import type { GuideDetail } from '@/shared/schemas/guides';
-import { useDiscardDraft, useGuide, useGuideAction, useGuideComparison } from '../api/guides';
+import { useDiscardDraft, useGuide, useGuideAction, useGuideComparison, useGuideWalkOutcomes } from '../api/guides';
 import { StepKindBadge } from './step-kind';
 
 function Compare({ guide }: { guide: GuideDetail }) {
@@ -47,6 +47,37 @@ function Compare({ guide }: { guide: GuideDetail }) {
           {cmp.data.steps.changed.map((s) => <p key={`c-${s.id}`}><span className="rounded bg-amber-wash px-1 font-semibold text-amber-deep">Changed</span> {s.title} <span className="text-ink-soft">({s.fields.join(', ')})</span></p>)}
           <p className="text-ink-soft">{cmp.data.steps.unchanged} steps unchanged.</p>
         </div>
+      )}
+    </Card>
+  );
+}
+
+function NotFixedWalks({ guideId }: { guideId: number }) {
+  const walks = useGuideWalkOutcomes(guideId, true);
+  const misses = (walks.data ?? []).filter((w) => w.outcome === 'not-fixed' || w.outcome === 'fixed-by-other');
+  return (
+    <Card>
+      <h2 className="text-lg font-semibold">Walks that did not end in the guide’s fix</h2>
+      {walks.isPending ? (
+        <LoadingBlock />
+      ) : misses.length === 0 ? (
+        <p className="mt-1 text-ink-soft">None so far{walks.data?.length ? ` out of ${walks.data.length} finished walks` : ''}.</p>
+      ) : (
+        <ul className="mt-2 divide-y divide-rule">
+          {misses.map((w) => (
+            <li key={w.id}>
+              <Link to={`/walks/${w.id}/summary`} className="flex min-h-11 flex-wrap items-center justify-between gap-2 py-2 hover:text-amber-deep">
+                <span>
+                  <span className="font-semibold">{w.outcome === 'not-fixed' ? 'Not fixed' : 'Fixed by something else'}</span>
+                  {w.outcomeNote ? `: ${w.outcomeNote}` : ''}
+                </span>
+                <span className="text-sm text-ink-soft">
+                  v{w.versionNumber} · {w.userName ?? '—'}{w.line ? ` · ${w.line}` : ''} · {w.endedAt ? new Date(w.endedAt).toLocaleDateString() : ''}
+                </span>
+              </Link>
+            </li>
+          ))}
+        </ul>
       )}
     </Card>
   );
@@ -136,6 +167,7 @@ export function GuidePage() {
       </header>
       {canWalk && g.published && g.status === 'active' ? <ButtonLink to={`/guides/${g.id}/walk`} className="w-full sm:w-auto">Start walk</ButtonLink> : null}
       {isAuthor ? <AuthorPanel guide={g} /> : null}
+      {isAuthor && g.published ? <NotFixedWalks guideId={g.id} /> : null}
       {isAuthor && g.versions.length ? <Compare guide={g} /> : null}
       {isAuthor && g.events.length ? (
         <Card>

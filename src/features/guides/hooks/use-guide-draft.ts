@@ -61,6 +61,7 @@ export function useGuideDraft(guide: GuideDetail) {
         lock.current = g.lockVersion ?? lock.current;
         saved.current = JSON.stringify(draft);
         qc.setQueryData(guideKeys.detail(guide.id), g);
+        void qc.invalidateQueries({ queryKey: [...guideKeys.all, 'compare', guide.id] });
         setMessage(null);
         const same = JSON.stringify(latest.current) === saved.current;
         if (same) localStorage.removeItem(backupKey(guide.id));
