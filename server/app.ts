@@ -33,6 +33,7 @@ import { guidesRoutes } from './modules/guides/guides.routes';
 import { walksRoutes } from './modules/walks/walks.routes';
 import { searchRoutes } from './modules/search/search.routes';
 import { assetsRoutes } from './modules/assets/assets.routes';
+import { casesRoutes } from './modules/cases/cases.routes';
 
 export interface AppDeps {
   db: Knex;
@@ -118,6 +119,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
     ...walksRoutes({ db, files }),
     ...searchRoutes({ db, config, logger }),
     ...assetsRoutes({ db, files }),
+    ...casesRoutes({ db, config, logger, files }),
   ];
   app.use('/api', api);
   for (const r of routers) if (r !== health) app.use(r.base, r.router);

@@ -15,7 +15,9 @@ export const NAV: NavItem[] = [
   { to: paths.calculators, label: 'Calculators', icon: Icon.calculator, permission: 'calculators:use' },
   { to: paths.guides, label: 'Guides', icon: Icon.guide, permission: 'guides:read' },
   { to: paths.applicators, label: 'Applicators', icon: Icon.valve, permission: 'assets:read' },
+  { to: paths.cases, label: 'Cases', icon: Icon.phone, permission: 'cases:read' },
   { to: paths.articles, label: 'Articles', icon: Icon.book, permission: 'articles:read' },
   { to: paths.adminUsers, label: 'Users', icon: Icon.users, permission: 'users:manage' },
   { to: paths.adminSettings, label: 'Settings', icon: Icon.settings, permission: 'settings:manage' },
+  { to: paths.adminOutbox, label: 'Outbox', icon: Icon.mail, permission: 'mail:outbox' },
 ];

@@ -22,6 +22,7 @@ import { WalkRunnerPage } from '@/features/walks/components/walk-runner-page';
 import { WalkSummaryPage } from '@/features/walks/components/walk-summary-page';
 import { SearchAdminPage, SearchPage } from '@/features/search/components/search-page';
 import { AssetsRoutes } from '@/features/assets/components/assets-routes';
+import { CasesRoutes, OutboxPage } from '@/features/cases/components/cases-routes';
 import { HomeRoute } from './routes/home';
 import { RequirePermission } from './require-permission';
 
@@ -53,6 +54,8 @@ export const router = createBrowserRouter([
           { path: paths.search, element: <RequirePermission permission="search:use"><SearchPage /></RequirePermission> },
           { path: paths.adminSearch, element: <RequirePermission permission="search:admin"><SearchAdminPage /></RequirePermission> },
           { path: `${paths.applicators}/*`, element: <RequirePermission permission="assets:read"><AssetsRoutes /></RequirePermission> },
+          { path: `${paths.cases}/*`, element: <RequirePermission permission="cases:read"><CasesRoutes /></RequirePermission> },
+          { path: paths.adminOutbox, element: <RequirePermission permission="mail:outbox"><OutboxPage /></RequirePermission> },
           { path: paths.adminSettings, element: <RequirePermission permission="settings:manage"><SettingsPage /></RequirePermission> },
           { path: paths.adminUsers, element: <RequirePermission permission="users:manage"><UsersPage /></RequirePermission> },
           { path: '*', element: <NotFoundPage /> },

@@ -47,6 +47,12 @@ export const PERMISSIONS = {
   'assets:manage': ['admin', 'author'],
   /** Add counter readings and service events. */
   'assets:record': ['admin', 'author', 'technician'],
+  /** See cases: support and managers all, authors and admins handed-off ones, technicians their own. */
+  'cases:read': everyone,
+  /** Log calls and work cases: notes, status, walks with the caller, hand-off, summaries. */
+  'cases:work': ['support'],
+  /** See every e-mail Beadpath sent or tried to send. */
+  'mail:outbox': ['admin'],
   /** Upload photos and documents (articles, walks, cases). */
   'files:upload': ['admin', 'author', 'technician', 'support'],
   /** Edit the organisation's tag lists. */

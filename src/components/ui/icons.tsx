@@ -45,6 +45,17 @@ export const Icon = {
       <circle cx="12" cy="21" r="1" fill="currentColor" />
     </Svg>
   ),
+  phone: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M5 4h4l2 5-2.5 1.5a11 11 0 005 5L15 13l5 2v4a2 2 0 01-2 2A16 16 0 013 6a2 2 0 012-2z" />
+    </Svg>
+  ),
+  mail: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <rect x="3" y="5" width="18" height="14" rx="2" />
+      <path d="M3 7l9 6 9-6" />
+    </Svg>
+  ),
   search: (p: SVGProps<SVGSVGElement>) => (
     <Svg {...p}>
       <circle cx="11" cy="11" r="6" />
