@@ -6,33 +6,10 @@ import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
 import { annulusArea, circleArea } from '@/shared/calculators/air-piston-force';
 import { ISO_8778_ATMOSPHERE, STANDARD_ATMOSPHERE, freeAirPerCycle } from '@/shared/calculators/air-consumption';
 import { CalculatorInputError } from '@/shared/calculators/types';
+import { expectRel, expectPrinted, q, out, catchError } from '../helpers/calc';
 
 const PHYSICS = 1e-6;
 const math = create(all, {});
-
-function expectRel(actual: number, expected: number, rel: number) {
-  const scale = Math.abs(expected) > 0 ? Math.abs(expected) : 1;
-  expect(Math.abs(actual - expected) / scale).toBeLessThanOrEqual(rel);
-}
-function expectPrinted(actual: number, printed: string) {
-  const decimals = printed.includes('.') ? printed.split('.')[1].length : 0;
-  expect(Math.abs(actual - Number(printed))).toBeLessThanOrEqual(0.5 * 10 ** -decimals + 1e-12 * Math.abs(actual));
-}
-const q = (value: number, unit: string) => ({ value, unit });
-function out(response: CalculatorResponse, name: string, unit?: string): number {
-  const o = response.outputs[name];
-  if (typeof o !== 'object') throw new Error(`output ${name} missing`);
-  if (unit) expect(o.unit).toBe(unit);
-  return o.value;
-}
-function catchError(fn: () => unknown): unknown {
-  try {
-    fn();
-  } catch (error) {
-    return error;
-  }
-  return undefined;
-}
 
 // Parr, Hydraulics and Pneumatics, 3rd ed. (2011) [memory] for the formulas; values derived.
 const cylinder = { boreDiameter: q(20, 'mm'), rodDiameter: q(6, 'mm'), airPressure: q(6, 'bar') };

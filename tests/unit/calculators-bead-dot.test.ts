@@ -6,29 +6,10 @@ import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
 import { beadArea, concaveFilletArea } from '@/shared/calculators/bead';
 import { capHeightFromContactAngle, sphericalCapVolume } from '@/shared/calculators/dot';
 import { CalculatorInputError } from '@/shared/calculators/types';
+import { expectRel, q, out, catchError } from '../helpers/calc';
 
 const PHYSICS = 1e-6;
 const math = create(all, {});
-
-function expectRel(actual: number, expected: number, rel: number) {
-  const scale = Math.abs(expected) > 0 ? Math.abs(expected) : 1;
-  expect(Math.abs(actual - expected) / scale).toBeLessThanOrEqual(rel);
-}
-const q = (value: number, unit: string) => ({ value, unit });
-function out(response: CalculatorResponse, name: string, unit?: string): number {
-  const o = response.outputs[name];
-  if (typeof o !== 'object') throw new Error(`output ${name} missing`);
-  if (unit) expect(o.unit).toBe(unit);
-  return o.value;
-}
-function catchError(fn: () => unknown): unknown {
-  try {
-    fn();
-  } catch (error) {
-    return error;
-  }
-  return undefined;
-}
 
 const density = q(1.2, 'g/cm3');
 

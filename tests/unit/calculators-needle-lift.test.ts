@@ -5,25 +5,11 @@ import fc from 'fast-check';
 import { all, create } from 'mathjs';
 import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
 import { crossoverLift, curtainArea, curtainAreaApprox } from '@/shared/calculators/needle-lift';
+import { expectRel, expectPrinted, q, out } from '../helpers/calc';
 
 const PHYSICS = 1e-6;
 const math = create(all, {});
 
-function expectRel(actual: number, expected: number, rel: number) {
-  const scale = Math.abs(expected) > 0 ? Math.abs(expected) : 1;
-  expect(Math.abs(actual - expected) / scale).toBeLessThanOrEqual(rel);
-}
-function expectPrinted(actual: number, printed: string) {
-  const decimals = printed.includes('.') ? printed.split('.')[1].length : 0;
-  expect(Math.abs(actual - Number(printed))).toBeLessThanOrEqual(0.5 * 10 ** -decimals + 1e-12 * Math.abs(actual));
-}
-const q = (value: number, unit: string) => ({ value, unit });
-function out(response: CalculatorResponse, name: string, unit?: string): number {
-  const o = response.outputs[name];
-  if (typeof o !== 'object') throw new Error(`output ${name} missing`);
-  if (unit) expect(o.unit).toBe(unit);
-  return o.value;
-}
 const lift = (included: number, h: number) =>
   runCalculator('needle-lift', { inputs: { seatDiameter: q(1.5, 'mm'), coneIncludedAngle: q(included, 'deg'), lift: q(h, 'mm') } });
 

@@ -12,14 +12,11 @@ import {
 } from '@/shared/calculators/nozzle-flow';
 import { metznerReedReynolds, powerLawFlow, powerLawPressureDrop, powerLawWallShearRate } from '@/shared/calculators/nozzle-flow-power-law';
 import { CalculatorInputError } from '@/shared/calculators/types';
+import { expectRel, q, out, catchError } from '../helpers/calc';
 
 const PHYSICS = 1e-6;
 const math = create(all, {});
 
-function expectRel(actual: number, expected: number, rel: number) {
-  const scale = Math.abs(expected) > 0 ? Math.abs(expected) : 1;
-  expect(Math.abs(actual - expected) / scale).toBeLessThanOrEqual(rel);
-}
 /** For values the source prints rounded: within half a unit of the last printed digit. */
 function expectPrinted(actual: number, printed: string) {
   const decimals = printed.includes('.') ? printed.split('.')[1].replace(/e.*$/i, '').length : 0;
@@ -27,22 +24,7 @@ function expectPrinted(actual: number, printed: string) {
   const step = 10 ** (-decimals + (exponent ? Number(exponent[1]) : 0));
   expect(Math.abs(actual - Number(printed))).toBeLessThanOrEqual(step / 2 + 1e-12 * Math.abs(actual));
 }
-const q = (value: number, unit: string) => ({ value, unit });
-function out(response: CalculatorResponse, name: string, unit?: string): number {
-  const o = response.outputs[name];
-  if (typeof o !== 'object') throw new Error(`output ${name} missing`);
-  if (unit) expect(o.unit).toBe(unit);
-  return o.value;
-}
 const codes = (response: CalculatorResponse) => response.warnings.map((w) => w.code);
-function catchError(fn: () => unknown): unknown {
-  try {
-    fn();
-  } catch (error) {
-    return error;
-  }
-  return undefined;
-}
 
 const needleB = { innerDiameter: q(0.41, 'mm'), length: q(12.7, 'mm') };
 

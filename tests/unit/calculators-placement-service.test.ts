@@ -5,33 +5,10 @@ import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
 import { distanceCompensationError } from '@/shared/calculators/placement-drift';
 import { DEFAULT_THRESHOLDS, serviceForecast } from '@/shared/calculators/service-forecast';
 import { CalculatorInputError } from '@/shared/calculators/types';
+import { expectRel, expectPrinted, q, out, catchError } from '../helpers/calc';
 
 const PHYSICS = 1e-6;
 const math = create(all, {});
-
-function expectRel(actual: number, expected: number, rel: number) {
-  const scale = Math.abs(expected) > 0 ? Math.abs(expected) : 1;
-  expect(Math.abs(actual - expected) / scale).toBeLessThanOrEqual(rel);
-}
-function expectPrinted(actual: number, printed: string) {
-  const decimals = printed.includes('.') ? printed.split('.')[1].length : 0;
-  expect(Math.abs(actual - Number(printed))).toBeLessThanOrEqual(0.5 * 10 ** -decimals + 1e-12 * Math.abs(actual));
-}
-const q = (value: number, unit: string) => ({ value, unit });
-function out(response: CalculatorResponse, name: string, unit?: string): number {
-  const o = response.outputs[name];
-  if (typeof o !== 'object') throw new Error(`output ${name} missing`);
-  if (unit) expect(o.unit).toBe(unit);
-  return o.value;
-}
-function catchError(fn: () => unknown): unknown {
-  try {
-    fn();
-  } catch (error) {
-    return error;
-  }
-  return undefined;
-}
 
 describe('placement-drift (constant-speed kinematics [derived])', () => {
   const line = { lineSpeed: q(500, 'mm/s'), openDelay: q(8, 'ms'), closeDelay: q(12, 'ms') };

@@ -11,18 +11,8 @@ import {
 } from '@/shared/calculators';
 import { CalculatorInputError, UnknownCalculatorError } from '@/shared/calculators/types';
 import { UNITS, isQuantityKind, isUnitOf } from '@/shared/units';
+import { expectRel, q, out } from '../helpers/calc';
 
-function expectRel(actual: number, expected: number, rel: number) {
-  const scale = Math.abs(expected) > 0 ? Math.abs(expected) : 1;
-  expect(Math.abs(actual - expected) / scale).toBeLessThanOrEqual(rel);
-}
-const q = (value: number, unit: string) => ({ value, unit });
-function out(response: CalculatorResponse, name: string, unit?: string): number {
-  const o = response.outputs[name];
-  if (typeof o !== 'object') throw new Error(`output ${name} missing`);
-  if (unit) expect(o.unit).toBe(unit);
-  return o.value;
-}
 function fieldsOf(fn: () => unknown): Record<string, string> {
   try {
     fn();

@@ -19,32 +19,10 @@ import {
   weibullStdDev,
 } from '@/shared/calculators/weibull';
 import { CalculatorInputError } from '@/shared/calculators/types';
+import { expectRel, expectPrinted, out, catchError } from '../helpers/calc';
 
 const PHYSICS = 1e-6;
 const FITTED = 1e-4;
-
-function expectRel(actual: number, expected: number, rel: number) {
-  const scale = Math.abs(expected) > 0 ? Math.abs(expected) : 1;
-  expect(Math.abs(actual - expected) / scale).toBeLessThanOrEqual(rel);
-}
-function expectPrinted(actual: number, printed: string) {
-  const decimals = printed.includes('.') ? printed.split('.')[1].length : 0;
-  expect(Math.abs(actual - Number(printed))).toBeLessThanOrEqual(0.5 * 10 ** -decimals + 1e-12 * Math.abs(actual));
-}
-function out(response: CalculatorResponse, name: string, unit?: string): number {
-  const o = response.outputs[name];
-  if (typeof o !== 'object') throw new Error(`output ${name} missing`);
-  if (unit) expect(o.unit).toBe(unit);
-  return o.value;
-}
-function catchError(fn: () => unknown): unknown {
-  try {
-    fn();
-  } catch (error) {
-    return error;
-  }
-  return undefined;
-}
 
 // NIST/SEMATECH e-Handbook §8.4.1.3: 20 units, 10 failures, 10 suspended at 500 h [checked]
 const NIST_FAILURES = [54, 187, 216, 240, 244, 335, 361, 373, 375, 386];

@@ -19,22 +19,9 @@ import {
   type QuantityKind,
 } from '@/shared/units';
 import { CalculatorInputError } from '@/shared/calculators/types';
+import { expectRel, catchError } from '../helpers/calc';
 
 const EXACT = 1e-9;
-
-function expectRel(actual: number, expected: number, rel: number) {
-  const scale = Math.abs(expected) > 0 ? Math.abs(expected) : 1;
-  expect(Math.abs(actual - expected) / scale).toBeLessThanOrEqual(rel);
-}
-
-function catchError(fn: () => unknown): unknown {
-  try {
-    fn();
-  } catch (error) {
-    return error;
-  }
-  return undefined;
-}
 
 const math = create(all, {});
 // mathjs 15.2.0 has no poise, cP or thou; defined as calculators.md §1 gives them.
