@@ -15,6 +15,7 @@ export interface WalkRow {
   site: string | null;
   line: string | null;
   applicator: string | null;
+  applicator_id: number | null;
   status: WalkStatus;
   current_step_id: string | null;
   ended_at_step_id: string | null;
@@ -45,6 +46,7 @@ export function toWalk(r: WalkRow): WalkRecord {
     site: r.site,
     line: r.line,
     applicator: r.applicator,
+    applicatorId: r.applicator_id ?? null,
     status: r.status,
     currentStepId: r.current_step_id,
     endedAtStepId: r.ended_at_step_id,
@@ -169,7 +171,17 @@ export const walksRepository = {
 
   async insert(
     db: Knex,
-    row: { organisationId: number; guideId: number; guideVersionId: number; userId: number; site: string | null; line: string | null; applicator: string | null; currentStepId: string },
+    row: {
+      organisationId: number;
+      guideId: number;
+      guideVersionId: number;
+      userId: number;
+      site: string | null;
+      line: string | null;
+      applicator: string | null;
+      applicatorId: number | null;
+      currentStepId: string;
+    },
   ): Promise<number> {
     const [r] = await db('walks')
       .insert({
@@ -180,6 +192,7 @@ export const walksRepository = {
         site: row.site,
         line: row.line,
         applicator: row.applicator,
+        applicator_id: row.applicatorId,
         status: 'open',
         current_step_id: row.currentStepId,
       })
@@ -190,7 +203,7 @@ export const walksRepository = {
   /** An unanswered open walk the same user started moments ago on the same version and place. */
   async recentEmptyWalk(
     db: Knex,
-    row: { organisationId: number; userId: number; guideVersionId: number; site: string | null; line: string | null; applicator: string | null },
+    row: { organisationId: number; userId: number; guideVersionId: number; site: string | null; line: string | null; applicator: string | null; applicatorId: number | null },
     withinSeconds: number,
   ): Promise<number | undefined> {
     const found = await db('walks')
@@ -198,10 +211,21 @@ export const walksRepository = {
       .whereRaw('site is not distinct from ?', [row.site])
       .whereRaw('line is not distinct from ?', [row.line])
       .whereRaw('applicator is not distinct from ?', [row.applicator])
+      .whereRaw('applicator_id is not distinct from ?', [row.applicatorId])
       .whereRaw(`started_at > now() - make_interval(secs => ?)`, [withinSeconds])
       .orderBy('id', 'desc')
       .first('id');
     return found?.id;
+  },
+
+  /** The tag, line and site of a registered applicator, as the walk's place. */
+  async applicatorPlace(db: Knex, organisationId: number, applicatorId: number): Promise<{ site: string; line: string; applicator: string } | undefined> {
+    const r = await db('applicators as a')
+      .join('lines as l', 'l.id', 'a.line_id')
+      .join('sites as s', 's.id', 'a.site_id')
+      .where({ 'a.id': applicatorId, 'a.organisation_id': organisationId })
+      .first('a.tag', 'l.name as line', 's.name as site');
+    return r ? { site: r.site, line: r.line, applicator: r.tag } : undefined;
   },
 
   /** Serialises starts by one user, so two retries of one start cannot both create a walk. */

@@ -263,7 +263,13 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
         if (!content.success || !content.data.steps.some((s) => s.id === content.data.startStepId)) {
           throw AppError.conflict("The published version of this guide cannot be walked; tell the guide's authors", { guideId: 'The published version is damaged' });
         }
-        const place = { site: input.site, line: input.line, applicator: input.applicator };
+        let place = { site: input.site, line: input.line, applicator: input.applicator, applicatorId: input.applicatorId };
+        if (input.applicatorId !== null) {
+          const registered = await repo.applicatorPlace(trx, user.organisationId, input.applicatorId);
+          if (!registered) throw AppError.invalid('This applicator was not found in your organisation', { applicatorId: 'No such applicator in your organisation' });
+          // The record's words win over typed ones, so reports group the walk with its applicator.
+          place = { ...registered, applicatorId: input.applicatorId };
+        }
         if (input.clientId) {
           await repo.lockUserStarts(trx, user.id);
           const again = await repo.recentEmptyWalk(trx, { organisationId: user.organisationId, userId: user.id, guideVersionId: version.id, ...place }, START_RETRY_WINDOW_S);

@@ -60,6 +60,14 @@ export const StartWalkInput = z.object({
   site: placeText('Site'),
   line: placeText('Line'),
   applicator: placeText('Applicator'),
+  /** A registered applicator: its tag, line and site replace the three texts above. */
+  applicatorId: z
+    .number({ error: 'Applicator id must be a number' })
+    .int('Applicator id must be a whole number')
+    .positive('Applicator id must be positive')
+    .max(MAX_ID, 'Applicator id is too large')
+    .nullish()
+    .transform((value) => value ?? null),
   /** Retry key of the start request; see the route notes on what it protects against. */
   clientId: clientKey('Walk client id').optional(),
 });
@@ -132,6 +140,8 @@ export interface WalkMeta {
   site: string | null;
   line: string | null;
   applicator: string | null;
+  /** The registered applicator the walk was started from, if any. */
+  applicatorId: number | null;
   status: WalkStatus;
   /** The step the technician is on (the end step once ended). */
   currentStepId: string | null;

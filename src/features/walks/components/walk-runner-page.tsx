@@ -1,13 +1,13 @@
 // Walking a guide on a phone: one step per screen, cautions first, the answer in one tap, the
 // saved / waiting-to-send state always visible. Colleagues who open the walk see it live.
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router';
 import { useQuery } from '@tanstack/react-query';
 import { STEP_KIND_LABELS, type Step } from '@/shared/guides';
 import { previousStepId } from '@/shared/walks';
 import type { WalkDetail } from '@/shared/schemas/walks';
 import { api, ApiError, errorMessage } from '@/lib/api-client';
-import { useMe } from '@/lib/auth';
+import { useCan, useMe } from '@/lib/auth';
 import { uploadFile } from '@/lib/uploads';
 import { showToast } from '@/lib/toasts';
 import { Button } from '@/components/ui/button';
@@ -56,6 +56,7 @@ function Runner({ walk }: { walk: WalkDetail }) {
   const [flagOpen, setFlagOpen] = useState(false);
   const [abandonOpen, setAbandonOpen] = useState(false);
   const abandon = useAbandonWalk(walk.id);
+  const canRecordService = useCan('assets:record');
   const steps = walk.guide.content.steps as Step[];
   const state = run.state;
   const stepId = state.at;
@@ -78,8 +79,24 @@ function Runner({ walk }: { walk: WalkDetail }) {
     }
   };
 
-  if (!step) return <Notice tone="error" title="This walk points at a step its guide does not have." />;
   const ended = state.ended !== null && (state.ended !== 'finding' || state.outcome);
+  // A fix confirmed at a Finding on a registered applicator is worth a service record, prefilled.
+  const fixedCause = state.outcome?.outcome === 'fixed' && step?.kind === 'finding' ? step.causeCode : state.outcome?.outcome === 'fixed-by-other' ? state.outcome.causeCode : undefined;
+  const serviceLink =
+    ended && state.ended === 'finding' && walk.applicatorId && canRecordService && state.outcome?.outcome !== 'not-fixed'
+      ? `/applicators/${walk.applicatorId}/service/new?walkId=${walk.id}${fixedCause ? `&cause=${encodeURIComponent(fixedCause)}` : ''}`
+      : null;
+  // An answer given while the previous one was still sending waits for the next round; the
+  // service link waits for it, so send it now rather than in a quarter of a minute.
+  const { sync, flush } = run;
+  useEffect(() => {
+    if (!serviceLink || sync !== 'waiting' || !navigator.onLine) return;
+    // A second apart, so a server that keeps failing is not asked in a tight loop.
+    const t = setTimeout(() => void flush(), 1000);
+    return () => clearTimeout(t);
+  }, [serviceLink, sync, flush]);
+
+  if (!step) return <Notice tone="error" title="This walk points at a step its guide does not have." />;
 
   return (
     <div className="mx-auto flex max-w-xl flex-col pb-24">
@@ -105,6 +122,16 @@ function Runner({ walk }: { walk: WalkDetail }) {
             <p className="mt-1">{step.title}</p>
           </div>
           {state.ended === 'handoff' && step.kind === 'handoff' ? <HandoffView step={step} walkId={walk.id} /> : null}
+          {serviceLink && run.sync === 'saved' ? (
+            <Link to={serviceLink} className="inline-flex min-h-14 w-full items-center justify-center rounded-md bg-amber text-lg font-semibold text-white hover:bg-amber-deep">
+              Record service event
+            </Link>
+          ) : serviceLink ? (
+            // Leaving before the outcome reaches the server would leave the walk open there.
+            <p className="rounded-md border border-amber-line bg-amber-wash p-3 text-center font-semibold text-amber-deep" role="status">
+              Record service event: waiting for the walk to be saved…
+            </p>
+          ) : null}
           <Link to={`/walks/${walk.id}/summary`} className="inline-flex min-h-14 w-full items-center justify-center rounded-md border border-rule-strong bg-paper-raised text-lg font-semibold">
             See the record
           </Link>

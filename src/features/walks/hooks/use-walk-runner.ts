@@ -22,6 +22,8 @@ export function useWalkRunner(walk: WalkDetail) {
   const [sync, setSync] = useState<SyncState>('saved');
   const [error, setError] = useState<string | null>(null);
   const flushing = useRef(false);
+  // Set when an entry arrives while a send is under way, so that send goes round once more.
+  const again = useRef(false);
   const content = walk.guide.content as GuideContent;
 
   const reload = useCallback(async () => setQueue(await pending(walk.id)), [walk.id]);
@@ -37,8 +39,11 @@ export function useWalkRunner(walk: WalkDetail) {
   }, [walk.answers, queue, serverIds]);
   const state = useMemo(() => replayPath(content, log), [content, log]);
 
-  const flush = useCallback(async () => {
-    if (flushing.current) return;
+  const flush = useCallback(async (): Promise<void> => {
+    if (flushing.current) {
+      again.current = true;
+      return;
+    }
     flushing.current = true;
     try {
       const items = await pending(walk.id);
@@ -86,8 +91,13 @@ export function useWalkRunner(walk: WalkDetail) {
       setSync('saved');
     } catch {
       setSync('waiting');
+      again.current = false;
     } finally {
       flushing.current = false;
+    }
+    if (again.current) {
+      again.current = false;
+      await flush();
     }
   }, [walk.id, qc]);
 
