@@ -1,9 +1,14 @@
 // User administration inside one organisation: invite, change roles, deactivate.
 import type { Knex } from 'knex';
+import { ROLE_LABELS } from '../../../src/shared/permissions';
 import type { InviteUserInput, UpdateUserInput } from '../../../src/shared/schemas/auth';
+import type { Config } from '../../config/env';
 import { AppError } from '../../lib/app-error';
 import { usersRepository, type UserRecord } from '../auth/auth.repository';
-import { newInviteToken } from '../auth/auth.service';
+import { INVITE_DAYS, newInviteToken } from '../auth/auth.service';
+import type { MailService } from '../mail/mail.service';
+import { linkOrigin } from '../mail/origin';
+import { invitationMail } from '../mail/templates/invitation';
 
 export interface AdminUserView {
   id: number;
@@ -31,11 +36,35 @@ function view(u: UserRecord): AdminUserView {
   };
 }
 
-export function createAdminService(db: Knex) {
+export function createAdminService(db: Knex, mailer?: { mail: MailService; config: Config }) {
   async function inOrg(trx: Knex, organisationId: number, id: number) {
     const user = await usersRepository.findById(trx, id);
     if (!user || user.organisationId !== organisationId) throw AppError.notFound('This user');
     return user;
+  }
+
+  /** The invitation e-mail, written in the same transaction as the token it carries. */
+  async function recordInvitation(trx: Knex, user: UserRecord, token: string): Promise<number | null> {
+    if (!mailer) return null;
+    return mailer.mail.record(trx, {
+      organisationId: user.organisationId,
+      kind: 'invitation',
+      to: user.email,
+      content: invitationMail({
+        organisationName: user.organisationName,
+        name: user.name,
+        email: user.email,
+        invitedBy: null,
+        roles: user.roles.map((r) => ROLE_LABELS[r]),
+        link: `${linkOrigin(mailer.config)}/invite/${token}`,
+        days: INVITE_DAYS,
+      }),
+      fromName: user.organisationName,
+    });
+  }
+
+  function send(mailId: number | null) {
+    if (mailer && mailId !== null) mailer.mail.dispatch([mailId]);
   }
 
   return {
@@ -45,7 +74,7 @@ export function createAdminService(db: Knex) {
 
     async invite(organisationId: number, input: InviteUserInput) {
       const invite = newInviteToken();
-      return db.transaction(async (trx) => {
+      const out = await db.transaction(async (trx) => {
         if (await usersRepository.findByEmail(trx, input.email)) {
           throw AppError.conflict(`A user with the e-mail ${input.email} already exists`, { email: 'This e-mail is already in use' });
         }
@@ -57,18 +86,26 @@ export function createAdminService(db: Knex) {
           inviteHash: invite.hash,
           inviteExpiresAt: invite.expiresAt,
         });
-        return { user: view((await usersRepository.findById(trx, id))!), inviteToken: invite.token };
+        const user = (await usersRepository.findById(trx, id))!;
+        const mailId = await recordInvitation(trx, user, invite.token);
+        return { user: view(user), inviteToken: invite.token, emailed: mailId !== null, mailId };
       });
+      send(out.mailId);
+      return { user: out.user, inviteToken: out.inviteToken, emailed: out.emailed };
     },
 
     async reissueInvite(organisationId: number, id: number) {
       const invite = newInviteToken();
-      return db.transaction(async (trx) => {
+      const out = await db.transaction(async (trx) => {
         const user = await inOrg(trx, organisationId, id);
         if (user.passwordHash) throw AppError.conflict('This user has already set a password; no invitation is needed');
         await usersRepository.update(trx, id, { invite_token_hash: invite.hash, invite_expires_at: invite.expiresAt });
-        return { user: view((await usersRepository.findById(trx, id))!), inviteToken: invite.token };
+        const fresh = (await usersRepository.findById(trx, id))!;
+        const mailId = await recordInvitation(trx, fresh, invite.token);
+        return { user: view(fresh), inviteToken: invite.token, emailed: mailId !== null, mailId };
       });
+      send(out.mailId);
+      return { user: out.user, inviteToken: out.inviteToken, emailed: out.emailed };
     },
 
     async update(organisationId: number, actingUserId: number, id: number, patch: UpdateUserInput) {

@@ -108,3 +108,22 @@ export const usersRepository = {
     await q.delete();
   },
 };
+
+export const passwordResetsRepository = {
+  async insert(db: Knex, userId: number, tokenHash: string, expiresAt: Date) {
+    // Old, spent links are of no use to anyone; dropping them keeps the table small.
+    await db('password_resets').where({ user_id: userId }).where((w) => w.whereNotNull('used_at').orWhere('expires_at', '<', db.fn.now())).delete();
+    await db('password_resets').insert({ user_id: userId, token_hash: tokenHash, expires_at: expiresAt });
+  },
+  async findByHash(db: Knex, tokenHash: string, lock = false) {
+    const q = db('password_resets').where({ token_hash: tokenHash }).first();
+    if (lock) q.forUpdate();
+    const row = await q;
+    return row ? { id: row.id as number, userId: row.user_id as number, expiresAt: row.expires_at as Date, usedAt: (row.used_at as Date | null) ?? null } : null;
+  },
+  /** Marks this link used and spends every other open link of the user with it. */
+  async useAll(db: Knex, userId: number, usedId: number) {
+    await db('password_resets').where({ user_id: userId }).whereNull('used_at').update({ used_at: db.fn.now() });
+    await db('password_resets').where({ id: usedId }).update({ used_at: db.fn.now() });
+  },
+};

@@ -12,6 +12,7 @@ import {
   UpdateProfileInput,
   type SessionUser,
 } from '../../../src/shared/schemas/auth';
+import { ResetConfirmInput, ResetRequestInput, ResetTokenParam } from '../../../src/shared/schemas/cases';
 import { AppError } from '../../lib/app-error';
 import { ApiRouter } from '../../lib/routes';
 import { validate } from '../../lib/validate';
@@ -42,7 +43,10 @@ function signIn(req: Request, user: SessionUser): Promise<void> {
   return new Promise((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
 }
 
-export function authRoutes(deps: { auth: AuthService; passport: passport.Authenticator; loginLimit: number }) {
+/** The one answer to a reset request, whether or not the address has an account. */
+export const RESET_ANSWER = 'If this address belongs to a Beadpath account, a link to choose a new password is on its way. It works once, for an hour.';
+
+export function authRoutes(deps: { auth: AuthService; passport: passport.Authenticator; loginLimit: number; resetLimit?: number }) {
   const r = new ApiRouter('/api/auth');
 
   const loginLimiter = rateLimit({
@@ -101,6 +105,39 @@ export function authRoutes(deps: { auth: AuthService; passport: passport.Authent
   r.post('/invite/accept', 'public', validate('body', AcceptInviteInput), async (req, res) => {
     const { token, password } = res.locals.body as z.output<typeof AcceptInviteInput>;
     const user = await deps.auth.acceptInvite(token, password);
+    await signIn(req, user);
+    res.json(mePayload(user));
+  });
+
+  // Per address and per e-mail, so nobody can fill a colleague's mailbox or probe at speed; the
+  // limit applies whether or not the address has an account.
+  const resetLimiter = rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit: deps.resetLimit ?? 5,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `reset|${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').trim().toLowerCase()}`,
+    handler: (_req, _res, next) => next(new AppError('rate_limited', 'Too many reset requests for this e-mail. Wait 15 minutes and try again.')),
+  });
+
+  r.post('/password-reset', 'public', resetLimiter, validate('body', ResetRequestInput), async (req, res) => {
+    // Answered before any lookup, so the time taken says nothing about the address either.
+    res.status(202).json({ message: RESET_ANSWER });
+    try {
+      await deps.auth.requestPasswordReset(res.locals.body.email);
+    } catch (err) {
+      req.log?.error({ err }, 'password reset request failed');
+    }
+  });
+
+  r.get('/password-reset/:token', 'public', validate('params', ResetTokenParam), async (_req, res) => {
+    res.setHeader('Cache-Control', 'no-store');
+    res.json(await deps.auth.resetInfo(res.locals.params.token));
+  });
+
+  r.post('/password-reset/confirm', 'public', validate('body', ResetConfirmInput), async (req, res) => {
+    const { token, password } = res.locals.body as z.output<typeof ResetConfirmInput>;
+    const user = await deps.auth.confirmPasswordReset(token, password);
     await signIn(req, user);
     res.json(mePayload(user));
   });

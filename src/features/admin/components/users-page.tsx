@@ -36,11 +36,11 @@ function inviteLink(token: string) {
   return `${window.location.origin}${paths.invite(token)}`;
 }
 
-function InviteLinkNotice({ name, token }: { name: string; token: string }) {
+function InviteLinkNotice({ name, token, email }: { name: string; token: string; email?: string }) {
   const link = inviteLink(token);
   return (
-    <Notice tone="ok" title={`Invitation for ${name} is ready`}>
-      <p>Send this link to them; it works once, for 7 days.</p>
+    <Notice tone="ok" title={email ? `Invitation e-mailed to ${name}` : `Invitation for ${name} is ready`}>
+      <p>{email ? `Beadpath sent the link to ${email}; it works once, for 7 days. If it does not arrive, send them this copy:` : 'Send this link to them; it works once, for 7 days.'}</p>
       <div className="mt-2 flex flex-wrap items-center gap-2">
         <code className="break-all rounded bg-paper-raised px-2 py-1 text-ink" data-testid="invite-link">
           {link}
@@ -59,7 +59,7 @@ function InviteForm() {
   const [email, setEmail] = useState('');
   const [roles, setRoles] = useState<Role[]>(['technician']);
   const [fields, setFields] = useState<Record<string, string>>({});
-  const [created, setCreated] = useState<{ name: string; token: string } | null>(null);
+  const [created, setCreated] = useState<{ name: string; token: string; email?: string } | null>(null);
 
   function submit(e: FormEvent) {
     e.preventDefault();
@@ -70,7 +70,7 @@ function InviteForm() {
       { name, email, roles },
       {
         onSuccess: (out) => {
-          setCreated({ name: out.user.name, token: out.inviteToken });
+          setCreated({ name: out.user.name, token: out.inviteToken, email: (out as { emailed?: boolean }).emailed ? out.user.email : undefined });
           setName('');
           setEmail('');
         },
@@ -83,14 +83,14 @@ function InviteForm() {
     <Card>
       <form onSubmit={submit} noValidate className="space-y-4">
         <h2 className="text-lg font-semibold">Invite someone</h2>
-        {created ? <InviteLinkNotice name={created.name} token={created.token} /> : null}
+        {created ? <InviteLinkNotice name={created.name} token={created.token} email={created.email} /> : null}
         <div className="grid gap-4 sm:grid-cols-2">
           <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} error={fields.name} autoComplete="off" />
           <TextField label="E-mail" type="email" value={email} onChange={(e) => setEmail(e.target.value)} error={fields.email} autoComplete="off" />
         </div>
         <RolePicker legend="Roles" value={roles} onChange={setRoles} error={fields.roles} />
         <Button type="submit" busy={invite.isPending}>
-          Create invitation
+          Invite by e-mail
         </Button>
       </form>
     </Card>
@@ -102,7 +102,7 @@ function UserRow({ user, isSelf }: { user: AdminUser; isSelf: boolean }) {
   const reissue = useReissueInvite();
   const [editing, setEditing] = useState(false);
   const [roles, setRoles] = useState<Role[]>(user.roles);
-  const [link, setLink] = useState<string | null>(null);
+  const [link, setLink] = useState<{ token: string; emailed: boolean } | null>(null);
 
   return (
     <li className={`rounded-lg border border-rule bg-paper-raised p-4 ${user.active ? '' : 'opacity-75'}`} data-testid={`user-${user.email}`}>
@@ -130,7 +130,7 @@ function UserRow({ user, isSelf }: { user: AdminUser; isSelf: boolean }) {
             {editing ? 'Close' : 'Change roles'}
           </Button>
           {user.invitePending && user.active ? (
-            <Button variant="secondary" busy={reissue.isPending} onClick={() => reissue.mutate(user.id, { onSuccess: (o) => setLink(o.inviteToken) })}>
+            <Button variant="secondary" busy={reissue.isPending} onClick={() => reissue.mutate(user.id, { onSuccess: (o) => setLink({ token: o.inviteToken, emailed: Boolean((o as { emailed?: boolean }).emailed) }) })}>
               New invitation link
             </Button>
           ) : null}
@@ -150,7 +150,7 @@ function UserRow({ user, isSelf }: { user: AdminUser; isSelf: boolean }) {
       </div>
       {link ? (
         <div className="mt-3">
-          <InviteLinkNotice name={user.name} token={link} />
+          <InviteLinkNotice name={user.name} token={link.token} email={link.emailed ? user.email : undefined} />
         </div>
       ) : null}
       {editing ? (

@@ -1,10 +1,11 @@
 // Public sign-in page: e-mail and password, the error in words, back to where the user was going.
 import { useState, type FormEvent } from 'react';
-import { Navigate, useNavigate, useSearchParams } from 'react-router';
+import { Link, Navigate, useNavigate, useSearchParams } from 'react-router';
 import { LoginInput } from '@/shared/schemas/auth';
 import { errorMessage } from '@/lib/api-client';
 import { useLogin, useMe } from '@/lib/auth';
 import { clientFieldErrors, serverFieldErrors } from '@/lib/form-errors';
+import { paths } from '@/lib/paths';
 import { Button } from '@/components/ui/button';
 import { Notice, Toaster } from '@/components/ui/feedback';
 import { TextField } from '@/components/ui/field';
@@ -62,6 +63,9 @@ export function SignInPage() {
           <Button type="submit" className="w-full" busy={login.isPending}>
             Sign in
           </Button>
+          <Link to={paths.resetPassword} className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">
+            Forgot your password?
+          </Link>
         </form>
         <p className="mt-4 text-center text-sm text-ink-soft">No account yet? Ask your Beadpath admin for an invitation.</p>
       </div>
