@@ -31,9 +31,11 @@ import { createTagsService } from './modules/tags/tags.service';
 import { localStorage } from './lib/storage';
 import { guidesRoutes } from './modules/guides/guides.routes';
 import { walksRoutes } from './modules/walks/walks.routes';
-import { searchRoutes } from './modules/search/search.routes';
+import { searchRoutes, stopSearch } from './modules/search/search.routes';
 import { assetsRoutes } from './modules/assets/assets.routes';
 import { casesRoutes } from './modules/cases/cases.routes';
+import { createMailService, type MailService } from './modules/mail/mail.service';
+import { requestOriginContext } from './modules/mail/origin';
 
 export interface AppDeps {
   db: Knex;
@@ -42,10 +44,12 @@ export interface AppDeps {
   version?: string;
   /** Folder of the built client; served with a single-page fallback when it exists. */
   clientDir?: string | null;
+  /** Outgoing mail; by default one that starts its queue (and the local fake SMTP) on first use. */
+  mail?: MailService;
 }
 
 export interface BeadpathApp extends Express {
-  locals: Express['locals'] & { routeTable: RouteInfo[]; filesDir: string; close: () => Promise<void> };
+  locals: Express['locals'] & { routeTable: RouteInfo[]; filesDir: string; mail: MailService; close: () => Promise<void> };
 }
 
 export const defaultClientDir = fileURLToPath(new URL('../dist', import.meta.url));
@@ -68,6 +72,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
           'font-src': ["'self'", 'data:'],
           'img-src': ["'self'", 'data:', 'blob:'],
           'connect-src': ["'self'"],
+          'frame-ancestors': ["'none'"],
           'upgrade-insecure-requests': null,
         },
       },
@@ -80,7 +85,8 @@ export function createApp(deps: AppDeps): BeadpathApp {
   const PgStore = connectPgSimple(session);
   const store = new PgStore({ pool: sessionPool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60, errorLog: (...args: unknown[]) => logger.warn({ detail: args.map(String).join(' ') }, 'session store error') });
 
-  const auth = createAuthService(db);
+  const mail = deps.mail ?? createMailService({ db, config, logger });
+  const auth = createAuthService(db, { mail, config });
   const tags = createTagsService(db);
   const filesDir = config.FILES_DIR ?? defaultFilesDir;
   const files = createFilesService(db, localStorage(filesDir));
@@ -101,14 +107,15 @@ export function createApp(deps: AppDeps): BeadpathApp {
   );
   api.use(passport.initialize());
   api.use(passport.session());
+  api.use(requestOriginContext());
 
   // Health answers before sessions are read, so it reports the database even when sessions cannot load.
   const health = healthRoutes({ db, version: deps.version ?? 'dev' });
   app.use(health.base, health.router);
   const routers: ApiRouter[] = [
     health,
-    authRoutes({ auth, passport, loginLimit: config.LOGIN_RATE_LIMIT }),
-    adminRoutes({ admin: createAdminService(db) }),
+    authRoutes({ auth, passport, loginLimit: config.LOGIN_RATE_LIMIT, resetLimit: config.RESET_RATE_LIMIT }),
+    adminRoutes({ admin: createAdminService(db, { mail, config }) }),
     settingsRoutes({ db }),
     calculatorRoutes(),
     tagsRoutes({ tags }),
@@ -119,7 +126,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
     ...walksRoutes({ db, files }),
     ...searchRoutes({ db, config, logger }),
     ...assetsRoutes({ db, files }),
-    ...casesRoutes({ db, config, logger, files }),
+    ...casesRoutes({ db, config, logger, files, mail }),
   ];
   app.use('/api', api);
   for (const r of routers) if (r !== health) app.use(r.base, r.router);
@@ -138,7 +145,11 @@ export function createApp(deps: AppDeps): BeadpathApp {
 
   app.locals.routeTable = routers.flatMap((r) => r.routes);
   app.locals.filesDir = filesDir;
+  app.locals.mail = mail;
   app.locals.close = async () => {
+    // Messages still waiting stay in the outbox; the next start sends them.
+    await mail.stop();
+    await stopSearch(db);
     await new Promise<void>((resolve) => store.close ? (store.close(), resolve()) : resolve());
     await sessionPool.end().catch(() => {});
   };

@@ -5,6 +5,7 @@ import { createApp } from './app';
 import { loadConfig, ConfigError } from './config/env';
 import { createDb, migrateLatest } from './db/knex';
 import { createLogger } from './lib/logger';
+import { createMailService } from './modules/mail/mail.service';
 
 export async function startServer(env: NodeJS.ProcessEnv = process.env) {
   const config = loadConfig(env);
@@ -16,7 +17,20 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env) {
   let clientDir: string | null | undefined;
   let vite: { middlewares: import('express').RequestHandler; close(): Promise<void> } | null = null;
   if (config.NODE_ENV === 'development') clientDir = null;
-  const app = createApp({ db, config, logger, version, clientDir });
+  // Started before listening: messages left queued by the last run go out, and the local fake
+  // SMTP server (when no real one is configured) is ready for the first message.
+  const mail = createMailService({ db, config, logger });
+  try {
+    await mail.start();
+  } catch (err) {
+    // The app still serves; messages stay in the outbox and the queue starts with the next one.
+    logger.error({ err }, 'the mail queue could not start');
+  }
+  if (mail.fake) logger.info({ port: mail.fake.port }, 'no SMTP server configured: e-mails are kept by the local fake and shown on the admin outbox page');
+  if (!config.PUBLIC_ORIGIN && config.NODE_ENV === 'production') {
+    logger.warn('PUBLIC_ORIGIN is not set: links in e-mails use the host each request names; set it to the address people use');
+  }
+  const app = createApp({ db, config, logger, version, clientDir, mail });
   if (config.NODE_ENV === 'development') {
     // Vite serves the client with hot reload in development; imported only here.
     const { createServer: createVite } = await import('vite');

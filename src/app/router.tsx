@@ -5,6 +5,7 @@ import { AppLayout } from '@/components/layouts/app-layout';
 import { NotFoundPage, RouteError } from '@/components/errors/route-error';
 import { SignInPage } from '@/features/auth/components/sign-in-page';
 import { InvitePage } from '@/features/auth/components/invite-page';
+import { ResetPasswordPage } from '@/features/auth/components/reset-password-page';
 import { AccountPage } from '@/features/auth/components/account-page';
 import { UsersPage } from '@/features/admin/components/users-page';
 import { CalculatorListPage } from '@/features/calculators/components/calculator-list-page';
@@ -29,6 +30,7 @@ import { RequirePermission } from './require-permission';
 export const router = createBrowserRouter([
   { path: paths.signIn, element: <SignInPage />, errorElement: <RouteError /> },
   { path: paths.invite(), element: <InvitePage />, errorElement: <RouteError /> },
+  { path: paths.resetPassword, element: <ResetPasswordPage />, errorElement: <RouteError /> },
   {
     element: <AppLayout />,
     errorElement: <RouteError />,

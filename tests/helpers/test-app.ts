@@ -15,6 +15,8 @@ import { hashPassword } from '../../server/lib/passwords';
 import { createTestDatabase } from './database';
 import { createDb } from '../../server/db/knex';
 import { startTcpProxy, type TcpProxy } from './tcp-proxy';
+import type { MailService } from '../../server/modules/mail/mail.service';
+import type { CapturedMail } from '../../server/modules/mail/fake-smtp';
 
 export const TEST_PASSWORD = 'correct horse battery staple';
 
@@ -31,6 +33,10 @@ export interface TestApp {
   signIn: (roles: Role[]) => Promise<{ agent: ReturnType<typeof request.agent>; user: { id: number; email: string } }>;
   close: () => Promise<void>;
   proxy?: TcpProxy;
+  /** The app's mail service; its local fake SMTP server keeps every message in this test's database. */
+  mail: MailService;
+  /** Waits until the fake SMTP server has received a message that matches, and returns it. */
+  waitForMail: (match: (m: CapturedMail) => boolean, timeoutMs?: number) => Promise<CapturedMail>;
 }
 
 let passwordHash: Promise<string> | null = null;
@@ -55,6 +61,13 @@ export async function startTestApp(env: Record<string, string> = {}, opts: { via
     LOG_LEVEL: 'silent',
     LOGIN_RATE_LIMIT: '1000',
     FILES_DIR: mkdtempSync(join(tmpdir(), 'beadpath-files-')),
+    // Mail goes to a local fake per app, polled and retried quickly so tests take seconds.
+    FAKE_SMTP: '1',
+    MAIL_POLL_S: '0.5',
+    MAIL_RETRY_DELAY_S: '1',
+    MAIL_RETRY_BACKOFF: '0',
+    MAIL_RETRY_LIMIT: '3',
+    RESET_RATE_LIMIT: '1000',
     ...env,
   });
   const app = createApp({ db, config, logger: createLogger('silent'), clientDir: null, version: 'test' });
@@ -90,9 +103,23 @@ export async function startTestApp(env: Record<string, string> = {}, opts: { via
     return { agent: a, user };
   };
 
+  const waitForMail: TestApp['waitForMail'] = async (match, timeoutMs = 10_000) => {
+    const fake = app.locals.mail.fake;
+    if (!fake) throw new Error('this test app sends through a real SMTP server, not the fake');
+    const until = Date.now() + timeoutMs;
+    for (;;) {
+      const found = (await fake.captured()).find(match);
+      if (found) return found;
+      if (Date.now() > until) throw new Error(`no matching message reached the fake SMTP server in ${timeoutMs} ms`);
+      await new Promise((r) => setTimeout(r, 100));
+    }
+  };
+
   return {
     app,
     db,
+    mail: app.locals.mail,
+    waitForMail,
     dbUrl,
     url,
     server,

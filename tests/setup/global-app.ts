@@ -38,8 +38,11 @@ export default async function setup(project: TestProject) {
 
   const db = createDb(dbUrl, { max: 6 });
   process.env.BEADPATH_DEMO = '1';
+  // The seeds store the demo drawings where the server will read them.
+  const filesDir = mkdtempSync(join(tmpdir(), 'beadpath-files-'));
+  process.env.FILES_DIR = filesDir;
   await runSeeds(db);
-  const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), LOG_LEVEL: 'silent', LOGIN_RATE_LIMIT: '50', FILES_DIR: mkdtempSync(join(tmpdir(), 'beadpath-files-')) });
+  const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), LOG_LEVEL: 'silent', LOGIN_RATE_LIMIT: '50', FILES_DIR: filesDir });
   const app = createApp({ db, config, logger: createLogger('silent') });
   const server = createServer(app);
   await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));

@@ -12,12 +12,14 @@ import { ButtonLink } from '@/components/ui/button';
 import { ArticleShortList } from '@/features/articles/components/article-short-list';
 import { OpenWalks } from '@/features/walks/components/open-walks';
 import { SymptomChips } from '@/features/guides/components/symptom-chips';
+import { SymptomSearch } from '@/features/search/components/symptom-search';
 import { GuideFeedback } from '@/features/guides/components/guide-feedback';
+import { CaseQueue, NoticesList } from '@/features/cases/components/cases-routes';
 
 const LEADS: Record<Role, string> = {
   technician: 'Tap what you see to walk its guide, or work out a reading with a calculator.',
   author: 'Reviews waiting for you, your drafts, and the numbers to check before you write them down.',
-  support: 'Walk a guide with a caller, and work through their numbers with them.',
+  support: 'Log each call, walk a guide with the caller, hand off or resolve, and send the summary.',
   manager: 'Forecast seat, needle and seal service from cycle counts, and fit failure data.',
   admin: 'Set Beadpath up for your organisation.',
 };
@@ -41,6 +43,8 @@ export function HomeRoute() {
         </div>
         <RoleSwitcher roles={me.user.roles} active={current} onChange={choose} />
       </div>
+      <NoticesList />
+      {current === 'support' ? <CaseQueue /> : null}
       {current === 'admin' ? (
         <Card>
           <h2 className="text-lg font-semibold">People</h2>
@@ -65,6 +69,7 @@ export function HomeRoute() {
       ) : null}
       {current === 'technician' || current === 'support' ? (
         <div className="space-y-6">
+          <SymptomSearch />
           <SymptomChips />
           {current === 'technician' ? <OpenWalks /> : null}
         </div>

@@ -7,6 +7,7 @@ import { useLogout, useMe } from '@/lib/auth';
 import { paths } from '@/lib/paths';
 import { Icon, Wordmark } from '@/components/ui/icons';
 import { LoadingBlock, Toaster } from '@/components/ui/feedback';
+import { HeaderSearch } from '@/features/search/components/header-search';
 
 export function AppLayout() {
   const { data: me, isPending } = useMe();
@@ -47,6 +48,7 @@ export function AppLayout() {
               </NavLink>
             ))}
           </nav>
+          {can(me.user.roles, 'search:use') ? <HeaderSearch /> : null}
           <div className="ml-auto hidden items-center gap-2 md:flex">
             <NavLink to={paths.account} className={link}>
               <Icon.account />
