@@ -55,6 +55,23 @@ export interface BeadpathApp extends Express {
 export const defaultClientDir = fileURLToPath(new URL('../dist', import.meta.url));
 export const defaultFilesDir = fileURLToPath(new URL('../.data/files', import.meta.url));
 
+/**
+ * Rolling sessions would write the session row on every request; extending the expiry at most
+ * every few minutes per session saves a database round trip on almost every call.
+ */
+function throttleTouch(store: session.Store, everyMs: number) {
+  const original = store.touch?.bind(store);
+  if (!original) return;
+  const last = new Map<string, number>();
+  store.touch = (sid, sess, callback) => {
+    const now = Date.now();
+    if (now - (last.get(sid) ?? 0) < everyMs) return callback?.();
+    last.set(sid, now);
+    if (last.size > 50_000) last.clear();
+    original(sid, sess, callback);
+  };
+}
+
 export function createApp(deps: AppDeps): BeadpathApp {
   const { db, config, logger } = deps;
   const app = express() as unknown as BeadpathApp;
@@ -84,6 +101,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
   sessionPool.on('error', (err) => logger.warn({ err }, 'session store connection lost'));
   const PgStore = connectPgSimple(session);
   const store = new PgStore({ pool: sessionPool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60, errorLog: (...args: unknown[]) => logger.warn({ detail: args.map(String).join(' ') }, 'session store error') });
+  throttleTouch(store, 5 * 60 * 1000);
 
   const mail = deps.mail ?? createMailService({ db, config, logger });
   const auth = createAuthService(db, { mail, config });

@@ -19,5 +19,6 @@ export const NAV: NavItem[] = [
   { to: paths.articles, label: 'Articles', icon: Icon.book, permission: 'articles:read' },
   { to: paths.adminUsers, label: 'Users', icon: Icon.users, permission: 'users:manage' },
   { to: paths.adminSettings, label: 'Settings', icon: Icon.settings, permission: 'settings:manage' },
+  { to: paths.adminSearch, label: 'Search engine', icon: Icon.search, permission: 'search:admin' },
   { to: paths.adminOutbox, label: 'Outbox', icon: Icon.mail, permission: 'mail:outbox' },
 ];

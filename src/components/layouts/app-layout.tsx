@@ -9,6 +9,9 @@ import { Icon, Wordmark } from '@/components/ui/icons';
 import { LoadingBlock, Toaster } from '@/components/ui/feedback';
 import { HeaderSearch } from '@/features/search/components/header-search';
 
+// More entries than this go under "More" so the header fits a laptop screen.
+const INLINE_ITEMS = 6;
+
 export function AppLayout() {
   const { data: me, isPending } = useMe();
   const location = useLocation();
@@ -41,12 +44,25 @@ export function AppLayout() {
             <Wordmark />
           </Link>
           <nav aria-label="Main" className="ml-4 hidden flex-1 items-center gap-1 md:flex">
-            {items.map((i) => (
+            {items.slice(0, INLINE_ITEMS).map((i) => (
               <NavLink key={i.to} to={i.to} end={i.to === '/'} className={link}>
                 <i.icon />
                 {i.label}
               </NavLink>
             ))}
+            {items.length > INLINE_ITEMS ? (
+              <details className="relative">
+                <summary className="flex min-h-11 cursor-pointer list-none items-center rounded-md px-3 font-semibold text-ink hover:bg-paper-sunk">More ▾</summary>
+                <div className="absolute left-0 z-40 mt-1 w-56 rounded-md border border-rule bg-paper-raised p-1 shadow-lg">
+                  {items.slice(INLINE_ITEMS).map((i) => (
+                    <NavLink key={i.to} to={i.to} className={link} onClick={(e) => e.currentTarget.closest('details')?.removeAttribute('open')}>
+                      <i.icon />
+                      {i.label}
+                    </NavLink>
+                  ))}
+                </div>
+              </details>
+            ) : null}
           </nav>
           {can(me.user.roles, 'search:use') ? <HeaderSearch /> : null}
           <div className="ml-auto hidden items-center gap-2 md:flex">

@@ -89,6 +89,8 @@ export function HeaderSearch() {
             title="Search guides and articles (press / to jump here)"
             autoComplete="off"
             enterKeyHint="search"
+            role="combobox"
+            aria-autocomplete="list"
             aria-controls={showPanel ? panelId : undefined}
             aria-expanded={showPanel}
             maxLength={200}
