@@ -34,6 +34,7 @@ import { walksRoutes } from './modules/walks/walks.routes';
 import { searchRoutes, stopSearch } from './modules/search/search.routes';
 import { assetsRoutes } from './modules/assets/assets.routes';
 import { casesRoutes } from './modules/cases/cases.routes';
+import { insightsRoutes } from './modules/insights/insights.routes';
 import { createMailService, type MailService } from './modules/mail/mail.service';
 import { requestOriginContext } from './modules/mail/origin';
 
@@ -145,6 +146,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
     ...searchRoutes({ db, config, logger }),
     ...assetsRoutes({ db, files }),
     ...casesRoutes({ db, config, logger, files, mail }),
+    ...insightsRoutes({ db, logger }),
   ];
   app.use('/api', api);
   for (const r of routers) if (r !== health) app.use(r.base, r.router);

@@ -16,6 +16,7 @@ export const NAV: NavItem[] = [
   { to: paths.guides, label: 'Guides', icon: Icon.guide, permission: 'guides:read' },
   { to: paths.applicators, label: 'Applicators', icon: Icon.valve, permission: 'assets:read' },
   { to: paths.cases, label: 'Cases', icon: Icon.phone, permission: 'cases:read' },
+  { to: paths.insights, label: 'Insights', icon: Icon.chart, permission: 'insights:read' },
   { to: paths.articles, label: 'Articles', icon: Icon.book, permission: 'articles:read' },
   { to: paths.adminUsers, label: 'Users', icon: Icon.users, permission: 'users:manage' },
   { to: paths.adminSettings, label: 'Settings', icon: Icon.settings, permission: 'settings:manage' },

@@ -24,6 +24,7 @@ import { WalkSummaryPage } from '@/features/walks/components/walk-summary-page';
 import { SearchAdminPage, SearchPage } from '@/features/search/components/search-page';
 import { AssetsRoutes } from '@/features/assets/components/assets-routes';
 import { CasesRoutes, OutboxPage } from '@/features/cases/components/cases-routes';
+import { InsightsRoutes } from '@/features/insights/components/insights-routes';
 import { HomeRoute } from './routes/home';
 import { RequirePermission } from './require-permission';
 
@@ -58,6 +59,7 @@ export const router = createBrowserRouter([
           { path: `${paths.applicators}/*`, element: <RequirePermission permission="assets:read"><AssetsRoutes /></RequirePermission> },
           { path: `${paths.cases}/*`, element: <RequirePermission permission="cases:read"><CasesRoutes /></RequirePermission> },
           { path: paths.adminOutbox, element: <RequirePermission permission="mail:outbox"><OutboxPage /></RequirePermission> },
+          { path: `${paths.insights}/*`, element: <RequirePermission permission="insights:read"><InsightsRoutes /></RequirePermission> },
           { path: paths.adminSettings, element: <RequirePermission permission="settings:manage"><SettingsPage /></RequirePermission> },
           { path: paths.adminUsers, element: <RequirePermission permission="users:manage"><UsersPage /></RequirePermission> },
           { path: '*', element: <NotFoundPage /> },

@@ -11,6 +11,7 @@ export const paths = {
   adminSearch: '/admin/search',
   adminOutbox: '/admin/outbox',
   cases: '/cases',
+  insights: '/insights',
   resetPassword: '/reset-password',
   search: '/search',
   applicators: '/applicators',

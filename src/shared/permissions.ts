@@ -53,6 +53,10 @@ export const PERMISSIONS = {
   'cases:work': ['support'],
   /** See every e-mail Beadpath sent or tried to send. */
   'mail:outbox': ['admin'],
+  /** Recurring causes, reliability, service forecasts and guide effectiveness. */
+  'insights:read': ['manager', 'admin', 'author'],
+  /** See the audit log of who changed what. */
+  'audit:read': ['admin'],
   /** Upload photos and documents (articles, walks, cases). */
   'files:upload': ['admin', 'author', 'technician', 'support'],
   /** Edit the organisation's tag lists. */

@@ -45,6 +45,12 @@ export const Icon = {
       <circle cx="12" cy="21" r="1" fill="currentColor" />
     </Svg>
   ),
+  chart: (p: SVGProps<SVGSVGElement>) => (
+    <Svg {...p}>
+      <path d="M4 20V4M4 20h16" />
+      <path d="M8 16v-5M12 16V8M16 16v-3" />
+    </Svg>
+  ),
   phone: (p: SVGProps<SVGSVGElement>) => (
     <Svg {...p}>
       <path d="M5 4h4l2 5-2.5 1.5a11 11 0 005 5L15 13l5 2v4a2 2 0 01-2 2A16 16 0 013 6a2 2 0 012-2z" />
