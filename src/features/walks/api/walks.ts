@@ -3,6 +3,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { BatchResult, NoteResult, WalkDetail, WalkListItem, WalkSummary } from '@/shared/schemas/walks';
 import { api } from '@/lib/api-client';
+import type { ApplicatorSpecs } from '@/shared/walks';
 
 export const walkKeys = {
   all: ['walks'] as const,
@@ -62,5 +63,16 @@ export function useFlagStep(id: number) {
     mutationFn: (b: { stepId: string; comment: string }) => api<unknown>(`/api/walks/${id}/flags`, { method: 'POST', body: b }),
     onSuccess: () => qc.invalidateQueries({ queryKey: walkKeys.detail(id) }),
     meta: { inlineErrors: true },
+  });
+}
+
+/** The specs of the walk's applicator, for prefilling calculator inputs. */
+export function useWalkApplicator(applicatorId: number | null) {
+  return useQuery({
+    queryKey: ['applicators', 'detail', applicatorId],
+    queryFn: () => api<{ applicator: ApplicatorSpecs & { tag: string } }>(`/api/applicators/${applicatorId}`).then((r) => r.applicator),
+    enabled: Boolean(applicatorId),
+    staleTime: 300_000,
+    meta: { quiet: true },
   });
 }

@@ -4,7 +4,7 @@ import { useMemo, useState } from 'react';
 import { Link } from 'react-router';
 import { getCalculator } from '@/shared/calculators';
 import { describeBand, type Step } from '@/shared/guides';
-import { nextStepFor, type RoutingAnswer } from '@/shared/walks';
+import { nextStepFor, prefillFromApplicator, type ApplicatorSpecs, type RoutingAnswer } from '@/shared/walks';
 import { HAZARDS, type Hazard } from '@/shared/tags';
 import { unitLabel, unitsFor, type UnitSystem } from '@/shared/units';
 import { Button } from '@/components/ui/button';
@@ -86,9 +86,9 @@ function BandPreview({ step, answer }: { step: Extract<Step, { kind: 'measure' }
   );
 }
 
-export function MeasureView({ step, disabled, system, submit }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit }) {
+export function MeasureView({ step, disabled, system, submit, specs }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit; specs?: ApplicatorSpecs }) {
   const calc = step.calculator ? getCalculator(step.calculator.id) : undefined;
-  return calc ? <MeasureWithCalculator step={step} disabled={disabled} system={system} submit={submit} /> : <PlainMeasure step={step} disabled={disabled} system={system} submit={submit} />;
+  return calc ? <MeasureWithCalculator step={step} disabled={disabled} system={system} submit={submit} specs={specs} /> : <PlainMeasure step={step} disabled={disabled} system={system} submit={submit} />;
 }
 
 function PlainMeasure({ step, disabled, system, submit }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit }) {
@@ -116,7 +116,7 @@ function PlainMeasure({ step, disabled, system, submit }: { step: Extract<Step, 
   );
 }
 
-function MeasureWithCalculator({ step, disabled, system, submit }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit }) {
+function MeasureWithCalculator({ step, disabled, system, submit, specs }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit; specs?: ApplicatorSpecs }) {
   const ref = step.calculator!;
   const calc = getCalculator(ref.id)!;
   const fixedNames = Object.keys(ref.fixedInputs);
@@ -124,8 +124,13 @@ function MeasureWithCalculator({ step, disabled, system, submit }: { step: Extra
   const [state, setState] = useState<FormState>(() => {
     const s = initialState(calc, system);
     for (const [k, v] of Object.entries(ref.fixedInputs)) s[k] = typeof v === 'string' ? { text: v, unit: '' } : { text: String(v.value), unit: v.unit };
+    if (specs) {
+      const fill = prefillFromApplicator(specs, calc.inputs.filter((i) => !(i.name in ref.fixedInputs) && i.name !== ref.readingInput));
+      for (const [k, v] of Object.entries(fill)) s[k] = { text: String(v.value), unit: v.unit };
+    }
     return s;
   });
+  const prefilled = specs ? Object.entries(prefillFromApplicator(specs, calc.inputs.filter((i) => !(i.name in ref.fixedInputs) && i.name !== ref.readingInput))) : [];
   const [outputUnits] = useState<Record<string, string>>({ [ref.output]: step.bandUnit });
   const calcResult = useCalculation(calc, state, outputUnits);
   const [error, setError] = useState<string | null>(null);
@@ -147,6 +152,11 @@ function MeasureWithCalculator({ step, disabled, system, submit }: { step: Extra
         {fixedNames.length ? (
           <p className="mb-3 text-sm text-ink-soft">
             Known: {fixedNames.map((n) => { const v = ref.fixedInputs[n]; const d = calc.inputs.find((i) => i.name === n); return `${d?.label ?? n} ${typeof v === 'string' ? v : `${v.value} ${unitLabel(v.unit)}`}`; }).join(' · ')}
+          </p>
+        ) : null}
+        {prefilled.length ? (
+          <p className="mb-3 text-sm text-ink-soft" data-prefilled>
+            From this valve’s record: {prefilled.map(([k, v]) => `${calc.inputs.find((i) => i.name === k)?.label ?? k} (${v.from})`).join(', ')}. Change them if the valve differs.
           </p>
         ) : null}
         <CalculatorFields calc={shown} state={state} system={system} errors={calcResult.fieldErrors} onChange={setState} />

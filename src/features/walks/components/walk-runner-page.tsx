@@ -15,7 +15,7 @@ import { Dialog } from '@/components/ui/dialog';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
 import { inputClass } from '@/components/ui/field';
 import { NotFoundPage } from '@/components/errors/route-error';
-import { useAbandonWalk, useFlagStep, useWalk } from '../api/walks';
+import { useAbandonWalk, useFlagStep, useWalk, useWalkApplicator } from '../api/walks';
 import { useWalkRunner } from '../hooks/use-walk-runner';
 import { AskView, CautionGate, FindingView, HandoffView, MeasureView, TryView } from './step-views';
 import { StepKindIcon } from './step-kind-icon';
@@ -50,6 +50,7 @@ function Runner({ walk }: { walk: WalkDetail }) {
   const { data: me } = useMe();
   const navigate = useNavigate();
   const run = useWalkRunner(walk);
+  const applicator = useWalkApplicator(walk.applicatorId ?? null);
   const causes = useQuery({ queryKey: ['causes'], queryFn: () => api<{ causes: { code: string; label: string; active: boolean }[] }>('/api/causes').then((r) => r.causes), staleTime: 300_000 });
   const [busy, setBusy] = useState(false);
   const [noteOpen, setNoteOpen] = useState(false);
@@ -162,7 +163,7 @@ function Runner({ walk }: { walk: WalkDetail }) {
           ) : null}
           <div className={disabled ? 'opacity-50' : ''} aria-disabled={disabled}>
             {step.kind === 'ask' ? <AskView key={step.id} step={step} disabled={disabled || busy} previous={state.previousAnswer} submit={submit} /> : null}
-            {step.kind === 'measure' ? <MeasureView key={step.id} step={step} disabled={disabled || busy} system={system} submit={submit} /> : null}
+            {step.kind === 'measure' ? <MeasureView key={`${step.id}-${applicator.data ? 'known' : 'unknown'}`} step={step} disabled={disabled || busy} system={system} submit={submit} specs={applicator.data} /> : null}
             {step.kind === 'try' ? <TryView key={step.id} step={step} disabled={disabled || busy} submit={submit} /> : null}
             {step.kind === 'finding' ? <FindingView key={step.id} step={step} disabled={disabled || busy} causes={(causes.data ?? []).filter((c) => c.active)} submit={submit} /> : null}
             {step.kind === 'handoff' ? <HandoffView step={step} walkId={walk.id} /> : null}
