@@ -11,6 +11,11 @@ import { router } from '@/app/router';
 
 const queryClient = createQueryClient();
 
+// After the page is up, so installing the offline copy never competes with the first view.
+window.addEventListener('load', () => {
+  void import('@/lib/service-worker').then((m) => m.startServiceWorker());
+});
+
 createRoot(document.getElementById('root')!).render(
   <StrictMode>
     <QueryClientProvider client={queryClient}>

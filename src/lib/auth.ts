@@ -32,11 +32,19 @@ export function useCan(permission: Permission): boolean {
   return can(data?.user.roles, permission);
 }
 
+// The service worker keeps API answers and photos for offline use (see vite.config.ts); on a shared
+// phone the next person must not read the last one's copies.
+function forgetOfflineCopies() {
+  if (typeof caches === 'undefined') return;
+  for (const name of ['beadpath-api', 'beadpath-files']) void caches.delete(name).catch(() => false);
+}
+
 export function useLogin() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (input: { email: string; password: string }) => api<Me>('/api/auth/login', { method: 'POST', body: input }),
     onSuccess: (me) => {
+      forgetOfflineCopies();
       qc.clear();
       qc.setQueryData(authKeys.me, me);
     },
@@ -49,6 +57,7 @@ export function useLogout() {
   return useMutation({
     mutationFn: () => api<void>('/api/auth/logout', { method: 'POST' }),
     onSuccess: () => {
+      forgetOfflineCopies();
       qc.clear();
       qc.setQueryData(authKeys.me, null);
     },

@@ -1,5 +1,5 @@
 // The step-kind icons of the walk screens (same drawings as the editor's, kept with the walk feature).
-import type { StepKind } from '@/shared/guides';
+import type { StepKind } from '@/shared/guides/schema';
 
 const PATHS: Record<StepKind, string> = {
   ask: 'M12 3a9 9 0 100 18 9 9 0 000-18zM9.5 9.5a2.5 2.5 0 015 .5c0 1.7-2.5 2-2.5 3.5M12 17v.5',

@@ -1,22 +1,20 @@
 // What the technician sees for each kind of step: big answers, a reading with its unit (and the
 // step's calculator inline), a Try's two outcomes, a Finding's checklist, a Hand-off's message.
-import { useMemo, useState } from 'react';
+import { lazy, Suspense, useState } from 'react';
 import { Link } from 'react-router';
 import { getCalculator } from '@/shared/calculators';
-import { describeBand, type Step } from '@/shared/guides';
-import { nextStepFor, prefillFromApplicator, type ApplicatorSpecs, type RoutingAnswer } from '@/shared/walks';
+import { describeBand } from '@/shared/guides/bands';
+import type { Step } from '@/shared/guides/schema';
+import { nextStepFor, type ApplicatorSpecs, type RoutingAnswer } from '@/shared/walks';
 import { HAZARDS, type Hazard } from '@/shared/tags';
 import { unitLabel, unitsFor, type UnitSystem } from '@/shared/units';
 import { Button } from '@/components/ui/button';
-import { Notice } from '@/components/ui/feedback';
+import { Notice, Skeleton } from '@/components/ui/feedback';
 import { inputClass } from '@/components/ui/field';
-import { CalculatorFields } from '@/components/calculator/calculator-fields';
-import { initialState, type FormState } from '@/components/calculator/form-state';
-import { useCalculation } from '@/components/calculator/use-calculation';
 import { formatValue } from '@/components/calculator/calculator-results';
 import type { NewAnswer } from '../hooks/use-walk-runner';
 
-type Submit = (a: NewAnswer) => Promise<string | null>;
+export type Submit = (a: NewAnswer) => Promise<string | null>;
 
 export function CautionGate({ step, unacknowledged, onAcknowledge, busy }: { step: Step; unacknowledged: string[]; onAcknowledge: () => void; busy: boolean }) {
   const open = step.cautions.filter((c) => unacknowledged.includes(c.id));
@@ -72,7 +70,7 @@ export function TryView({ step, disabled, submit }: { step: Extract<Step, { kind
   );
 }
 
-function BandPreview({ step, answer }: { step: Extract<Step, { kind: 'measure' }>; answer: RoutingAnswer | null }) {
+export function BandPreview({ step, answer }: { step: Extract<Step, { kind: 'measure' }>; answer: RoutingAnswer | null }) {
   if (!answer) return null;
   const r = nextStepFor(step as Step, answer);
   if (!r.ok) return <p className="text-sm font-semibold text-danger">{r.message}</p>;
@@ -86,9 +84,18 @@ function BandPreview({ step, answer }: { step: Extract<Step, { kind: 'measure' }
   );
 }
 
+// The calculator form is only needed on Measure steps that use one, so it loads when first needed.
+const MeasureWithCalculator = lazy(() => import('./measure-with-calculator').then((m) => ({ default: m.MeasureWithCalculator })));
+
 export function MeasureView({ step, disabled, system, submit, specs }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit; specs?: ApplicatorSpecs }) {
   const calc = step.calculator ? getCalculator(step.calculator.id) : undefined;
-  return calc ? <MeasureWithCalculator step={step} disabled={disabled} system={system} submit={submit} specs={specs} /> : <PlainMeasure step={step} disabled={disabled} system={system} submit={submit} />;
+  return calc ? (
+    <Suspense fallback={<Skeleton className="h-48 w-full" />}>
+      <MeasureWithCalculator step={step} disabled={disabled} system={system} submit={submit} specs={specs} />
+    </Suspense>
+  ) : (
+    <PlainMeasure step={step} disabled={disabled} system={system} submit={submit} />
+  );
 }
 
 function PlainMeasure({ step, disabled, system, submit }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit }) {
@@ -110,72 +117,6 @@ function PlainMeasure({ step, disabled, system, submit }: { step: Extract<Step, 
       <BandPreview step={step} answer={tentative} />
       {error ? <Notice tone="error" title={error} /> : null}
       <Button className="w-full !min-h-14 text-lg" disabled={disabled || !tentative} onClick={async () => setError(await submit({ kind: 'reading', stepId: step.id, value, unit }))}>
-        Use this reading
-      </Button>
-    </div>
-  );
-}
-
-function MeasureWithCalculator({ step, disabled, system, submit, specs }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit; specs?: ApplicatorSpecs }) {
-  const ref = step.calculator!;
-  const calc = getCalculator(ref.id)!;
-  const fixedNames = Object.keys(ref.fixedInputs);
-  const shown = useMemo(() => ({ ...calc, inputs: calc.inputs.filter((i) => !fixedNames.includes(i.name)).map((i) => (i.name === ref.readingInput ? { ...i, label: step.reading.label || i.label } : i)) }), [calc, fixedNames, ref.readingInput, step.reading.label]);
-  const [state, setState] = useState<FormState>(() => {
-    const s = initialState(calc, system);
-    for (const [k, v] of Object.entries(ref.fixedInputs)) s[k] = typeof v === 'string' ? { text: v, unit: '' } : { text: String(v.value), unit: v.unit };
-    if (specs) {
-      const fill = prefillFromApplicator(specs, calc.inputs.filter((i) => !(i.name in ref.fixedInputs) && i.name !== ref.readingInput));
-      for (const [k, v] of Object.entries(fill)) s[k] = { text: String(v.value), unit: v.unit };
-    }
-    return s;
-  });
-  const prefilled = specs ? Object.entries(prefillFromApplicator(specs, calc.inputs.filter((i) => !(i.name in ref.fixedInputs) && i.name !== ref.readingInput))) : [];
-  const [outputUnits] = useState<Record<string, string>>({ [ref.output]: step.bandUnit });
-  const calcResult = useCalculation(calc, state, outputUnits);
-  const [error, setError] = useState<string | null>(null);
-  const out = calcResult.result?.outputs[ref.output];
-  const readingField = ref.readingInput ? state[ref.readingInput] : undefined;
-  const readingValue = readingField ? Number(readingField.text.replace(',', '.')) : NaN;
-  const calculatorInputs = Object.fromEntries(
-    Object.entries(calcResult.request).filter(([k]) => k !== ref.readingInput && !fixedNames.includes(k)),
-  ) as Record<string, { value: number; unit: string } | string>;
-  const tentative: RoutingAnswer | null =
-    out && typeof out === 'object' && Number.isFinite(readingValue)
-      ? { kind: 'reading', stepId: step.id, id: 'preview-0000', answeredAt: new Date().toISOString(), value: readingValue, unit: readingField!.unit, calculatorInputs, computed: out }
-      : null;
-  const outDecl = calc.outputs.find((o) => o.name === ref.output);
-  return (
-    <div className="space-y-4">
-      <div className="rounded-md border border-rule bg-paper p-3">
-        <p className="mb-2 text-sm font-semibold text-ink-soft">Worked out with: {calc.title}</p>
-        {fixedNames.length ? (
-          <p className="mb-3 text-sm text-ink-soft">
-            Known: {fixedNames.map((n) => { const v = ref.fixedInputs[n]; const d = calc.inputs.find((i) => i.name === n); return `${d?.label ?? n} ${typeof v === 'string' ? v : `${v.value} ${unitLabel(v.unit)}`}`; }).join(' · ')}
-          </p>
-        ) : null}
-        {prefilled.length ? (
-          <p className="mb-3 text-sm text-ink-soft" data-prefilled>
-            From this valve’s record: {prefilled.map(([k, v]) => `${calc.inputs.find((i) => i.name === k)?.label ?? k} (${v.from})`).join(', ')}. Change them if the valve differs.
-          </p>
-        ) : null}
-        <CalculatorFields calc={shown} state={state} system={system} errors={calcResult.fieldErrors} onChange={setState} />
-      </div>
-      {out && typeof out === 'object' ? (
-        <p className="text-lg" data-output={ref.output}>
-          {outDecl?.label ?? ref.output}: <span className="tabular font-semibold">{formatValue(out.value)}</span> {unitLabel(out.unit)}
-        </p>
-      ) : calcResult.missing.length ? (
-        <p className="text-sm text-ink-soft">Still needed: {calcResult.missing.filter((m) => !fixedNames.some((n) => calc.inputs.find((i) => i.name === n)?.label === m)).join(', ')}</p>
-      ) : null}
-      {calcResult.result?.warnings.map((w) => <p key={w.code} className="rounded border-l-4 border-amber-line bg-amber-wash px-3 py-1 text-sm">{w.message}</p>)}
-      <BandPreview step={step} answer={tentative} />
-      {error ? <Notice tone="error" title={error} /> : null}
-      <Button
-        className="w-full !min-h-14 text-lg"
-        disabled={disabled || !tentative}
-        onClick={async () => tentative && tentative.kind === 'reading' && setError(await submit({ kind: 'reading', stepId: step.id, value: tentative.value, unit: tentative.unit, calculatorInputs, computed: tentative.computed }))}
-      >
         Use this reading
       </Button>
     </div>

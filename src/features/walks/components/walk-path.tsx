@@ -1,5 +1,5 @@
 // The path a walk has taken: each step with the answer given, in plain words.
-import { STEP_KIND_LABELS, type Step } from '@/shared/guides';
+import { STEP_KIND_LABELS, type Step } from '@/shared/guides/schema';
 import type { WalkState } from '@/shared/walks';
 import { unitLabel } from '@/shared/units';
 

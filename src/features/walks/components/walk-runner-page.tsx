@@ -3,7 +3,7 @@
 import { useEffect, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router';
 import { useQuery } from '@tanstack/react-query';
-import { STEP_KIND_LABELS, type Step } from '@/shared/guides';
+import { STEP_KIND_LABELS, type Step } from '@/shared/guides/schema';
 import { previousStepId } from '@/shared/walks';
 import type { WalkDetail } from '@/shared/schemas/walks';
 import { api, ApiError, errorMessage } from '@/lib/api-client';

@@ -4,7 +4,7 @@
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import { canAnswer, replayPath, type WalkAnswer } from '@/shared/walks';
-import type { GuideContent } from '@/shared/guides';
+import type { GuideContent } from '@/shared/guides/schema';
 import type { BatchRejectedDetails, WalkDetail } from '@/shared/schemas/walks';
 import { ApiError } from '@/lib/api-client';
 import { sendBatch, sendNote, walkKeys } from '../api/walks';

@@ -1,0 +1,15 @@
+// Whether the browser believes it has a network; drives the offline banner.
+import { useSyncExternalStore } from 'react';
+
+function subscribe(onChange: () => void) {
+  window.addEventListener('online', onChange);
+  window.addEventListener('offline', onChange);
+  return () => {
+    window.removeEventListener('online', onChange);
+    window.removeEventListener('offline', onChange);
+  };
+}
+
+export function useOnline(): boolean {
+  return useSyncExternalStore(subscribe, () => navigator.onLine, () => true);
+}
