@@ -17,6 +17,9 @@ export const PHOTO_VARIANTS = {
 } as const;
 export type Variant = keyof typeof PHOTO_VARIANTS | 'original';
 
+/** Above any phone or camera photo; a few hundred bytes of PNG can declare billions of pixels to decode. */
+export const MAX_PHOTO_PIXELS = 120_000_000;
+
 export interface StoredFile {
   id: string;
   kind: 'photo' | 'document';
@@ -80,10 +83,17 @@ export function createFilesService(db: Knex, storage: FileStorage) {
       try {
         let row: Omit<FileRow, 'organisation_id'>;
         if (detected && PHOTO_TYPES.has(detected.mime)) {
+          // The header is read before any pixel is decoded, so a declared-huge image costs nothing to refuse.
+          const header = await sharp(upload.buffer, { limitInputPixels: false }).metadata().catch(() => null);
+          if (header?.width && header.height && header.width * header.height > MAX_PHOTO_PIXELS) {
+            throw AppError.invalid(`The photo is ${header.width} × ${header.height} pixels; at most ${MAX_PHOTO_PIXELS / 1_000_000} megapixels are accepted. Make it smaller and upload again.`, {
+              file: `At most ${MAX_PHOTO_PIXELS / 1_000_000} megapixels`,
+            });
+          }
           let meta;
           try {
             // rotate() with no angle applies the EXIF orientation; sharp writes no metadata unless asked.
-            meta = await sharp(upload.buffer, { failOn: 'error' }).rotate().toBuffer({ resolveWithObject: true });
+            meta = await sharp(upload.buffer, { failOn: 'error', limitInputPixels: MAX_PHOTO_PIXELS }).rotate().toBuffer({ resolveWithObject: true });
           } catch {
             throw AppError.invalid(`The photo could not be read; it may be damaged. Accepted: ${ACCEPTED}.`, { file: 'The photo could not be read' });
           }
