@@ -1,5 +1,6 @@
 // Builds the Express application from its dependencies; listening is index.ts's job, so tests
 // can drive the same app in-process.
+import compression from 'compression';
 import connectPgSimple from 'connect-pg-simple';
 import express, { type Express } from 'express';
 import session from 'express-session';
@@ -20,8 +21,9 @@ import { createAdminService } from './modules/admin/admin.service';
 import { authRoutes, configurePassport } from './modules/auth/auth.routes';
 import { createAuthService } from './modules/auth/auth.service';
 import { calculatorRoutes } from './modules/calculators/calculators.routes';
-import { healthRoutes } from './modules/health/health.routes';
+import { floorRoutes, healthRoutes } from './modules/health/health.routes';
 import { settingsRoutes } from './modules/admin/settings.routes';
+import { auditRoutes } from './modules/admin/audit.routes';
 import { articlesRoutes } from './modules/articles/articles.routes';
 import { createArticlesService } from './modules/articles/articles.service';
 import { filesRoutes } from './modules/files/files.routes';
@@ -90,6 +92,9 @@ export function createApp(deps: AppDeps): BeadpathApp {
           'font-src': ["'self'", 'data:'],
           'img-src': ["'self'", 'data:', 'blob:'],
           'connect-src': ["'self'"],
+          // The offline service worker and the install manifest, both served from dist/.
+          'worker-src': ["'self'"],
+          'manifest-src': ["'self'"],
           'frame-ancestors': ["'none'"],
           'upgrade-insecure-requests': null,
         },
@@ -97,6 +102,8 @@ export function createApp(deps: AppDeps): BeadpathApp {
     }),
   );
   app.use(httpLogger(logger));
+  // Phones on weak signal: the client and JSON answers go gzip-compressed.
+  app.use(compression());
 
   const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 4 });
   sessionPool.on('error', (err) => logger.warn({ err }, 'session store connection lost'));
@@ -136,6 +143,8 @@ export function createApp(deps: AppDeps): BeadpathApp {
     authRoutes({ auth, passport, loginLimit: config.LOGIN_RATE_LIMIT, resetLimit: config.RESET_RATE_LIMIT }),
     adminRoutes({ admin: createAdminService(db, { mail, config }) }),
     settingsRoutes({ db }),
+    auditRoutes({ db }),
+    floorRoutes({ db }),
     calculatorRoutes(),
     tagsRoutes({ tags }),
     adminTagsRoutes({ tags }),

@@ -22,4 +22,5 @@ export const NAV: NavItem[] = [
   { to: paths.adminSettings, label: 'Settings', icon: Icon.settings, permission: 'settings:manage' },
   { to: paths.adminSearch, label: 'Search engine', icon: Icon.search, permission: 'search:admin' },
   { to: paths.adminOutbox, label: 'Outbox', icon: Icon.mail, permission: 'mail:outbox' },
+  { to: paths.adminAudit, label: 'Audit log', icon: Icon.book, permission: 'audit:read' },
 ];

@@ -1,37 +1,51 @@
 // All routes: public sign-in and invitation pages, and the signed-in app.
+import { Suspense } from 'react';
 import { createBrowserRouter } from 'react-router';
 import { paths } from '@/lib/paths';
 import { AppLayout } from '@/components/layouts/app-layout';
 import { NotFoundPage, RouteError } from '@/components/errors/route-error';
-import { SignInPage } from '@/features/auth/components/sign-in-page';
-import { InvitePage } from '@/features/auth/components/invite-page';
-import { ResetPasswordPage } from '@/features/auth/components/reset-password-page';
-import { AccountPage } from '@/features/auth/components/account-page';
-import { UsersPage } from '@/features/admin/components/users-page';
-import { CalculatorListPage } from '@/features/calculators/components/calculator-list-page';
-import { CalculatorPage } from '@/features/calculators/components/calculator-page';
-import { ArticleListPage } from '@/features/articles/components/article-list-page';
-import { ArticlePage } from '@/features/articles/components/article-page';
-import { ArticleEditorPage } from '@/features/articles/components/article-editor-page';
-import { ArticleHistoryPage } from '@/features/articles/components/article-history-page';
-import { SettingsPage } from '@/features/admin/components/settings-page';
-import { GuideListPage } from '@/features/guides/components/guide-list-page';
-import { GuidePage } from '@/features/guides/components/guide-page';
-import { GuideEditorPage } from '@/features/guides/components/guide-editor-page';
-import { WalkStartPage } from '@/features/walks/components/walk-start-page';
-import { WalkRunnerPage } from '@/features/walks/components/walk-runner-page';
-import { WalkSummaryPage } from '@/features/walks/components/walk-summary-page';
-import { SearchAdminPage, SearchPage } from '@/features/search/components/search-page';
-import { AssetsRoutes } from '@/features/assets/components/assets-routes';
-import { CasesRoutes, OutboxPage } from '@/features/cases/components/cases-routes';
-import { InsightsRoutes } from '@/features/insights/components/insights-routes';
-import { HomeRoute } from './routes/home';
 import { RequirePermission } from './require-permission';
+import { lazyPage } from './lazy-page';
+
+// Pages load on first visit, so no page carries another's editors, charts, tables or forms: the
+// entry holds React, the router, the query cache and the signed-in frame. The service worker
+// precaches the page chunks (all but the editors), so a page first opened without signal still loads.
+const AccountPage = lazyPage(() => import('@/features/auth/components/account-page'), 'AccountPage');
+const UsersPage = lazyPage(() => import('@/features/admin/components/users-page'), 'UsersPage');
+const CalculatorListPage = lazyPage(() => import('@/features/calculators/components/calculator-list-page'), 'CalculatorListPage');
+const CalculatorPage = lazyPage(() => import('@/features/calculators/components/calculator-page'), 'CalculatorPage');
+const ArticleListPage = lazyPage(() => import('@/features/articles/components/article-list-page'), 'ArticleListPage');
+const ArticlePage = lazyPage(() => import('@/features/articles/components/article-page'), 'ArticlePage');
+const ArticleEditorPage = lazyPage(() => import('@/features/articles/components/article-editor-page'), 'ArticleEditorPage');
+const ArticleHistoryPage = lazyPage(() => import('@/features/articles/components/article-history-page'), 'ArticleHistoryPage');
+const SettingsPage = lazyPage(() => import('@/features/admin/components/settings-page'), 'SettingsPage');
+const GuideListPage = lazyPage(() => import('@/features/guides/components/guide-list-page'), 'GuideListPage');
+const GuidePage = lazyPage(() => import('@/features/guides/components/guide-page'), 'GuidePage');
+const GuideEditorPage = lazyPage(() => import('@/features/guides/components/guide-editor-page'), 'GuideEditorPage');
+const AssetsRoutes = lazyPage(() => import('@/features/assets/components/assets-routes'), 'AssetsRoutes');
+const CasesRoutes = lazyPage(() => import('@/features/cases/components/cases-routes'), 'CasesRoutes');
+const OutboxPage = lazyPage(() => import('@/features/cases/components/outbox-page'), 'OutboxPage');
+const AuditPage = lazyPage(() => import('@/features/admin/components/audit-page'), 'AuditPage');
+const InsightsRoutes = lazyPage(() => import('@/features/insights/components/insights-routes'), 'InsightsRoutes');
+// Home is fetched as soon as the app starts when it is the page asked for, alongside the session
+// check, rather than after it.
+const homeModule = () => import('./routes/home');
+if (window.location.pathname === paths.home) void homeModule();
+const HomeRoute = lazyPage(homeModule, 'HomeRoute');
+const SignInPage = lazyPage(() => import('@/features/auth/components/sign-in-page'), 'SignInPage');
+const InvitePage = lazyPage(() => import('@/features/auth/components/invite-page'), 'InvitePage');
+const ResetPasswordPage = lazyPage(() => import('@/features/auth/components/reset-password-page'), 'ResetPasswordPage');
+const HelpPage = lazyPage(() => import('./routes/help'), 'HelpPage');
+const WalkStartPage = lazyPage(() => import('@/features/walks/components/walk-start-page'), 'WalkStartPage');
+const WalkRunnerPage = lazyPage(() => import('@/features/walks/components/walk-runner-page'), 'WalkRunnerPage');
+const WalkSummaryPage = lazyPage(() => import('@/features/walks/components/walk-summary-page'), 'WalkSummaryPage');
+const SearchPage = lazyPage(() => import('@/features/search/components/search-page'), 'SearchPage');
+const SearchAdminPage = lazyPage(() => import('@/features/search/components/search-page'), 'SearchAdminPage');
 
 export const router = createBrowserRouter([
-  { path: paths.signIn, element: <SignInPage />, errorElement: <RouteError /> },
-  { path: paths.invite(), element: <InvitePage />, errorElement: <RouteError /> },
-  { path: paths.resetPassword, element: <ResetPasswordPage />, errorElement: <RouteError /> },
+  { path: paths.signIn, element: <Suspense><SignInPage /></Suspense>, errorElement: <RouteError /> },
+  { path: paths.invite(), element: <Suspense><InvitePage /></Suspense>, errorElement: <RouteError /> },
+  { path: paths.resetPassword, element: <Suspense><ResetPasswordPage /></Suspense>, errorElement: <RouteError /> },
   {
     element: <AppLayout />,
     errorElement: <RouteError />,
@@ -41,6 +55,7 @@ export const router = createBrowserRouter([
         children: [
           { index: true, element: <HomeRoute /> },
           { path: paths.account, element: <AccountPage /> },
+          { path: paths.help, element: <HelpPage /> },
           { path: paths.calculators, element: <RequirePermission permission="calculators:use"><CalculatorListPage /></RequirePermission> },
           { path: paths.calculator(), element: <RequirePermission permission="calculators:use"><CalculatorPage /></RequirePermission> },
           { path: paths.articles, element: <RequirePermission permission="articles:read"><ArticleListPage /></RequirePermission> },
@@ -59,6 +74,7 @@ export const router = createBrowserRouter([
           { path: `${paths.applicators}/*`, element: <RequirePermission permission="assets:read"><AssetsRoutes /></RequirePermission> },
           { path: `${paths.cases}/*`, element: <RequirePermission permission="cases:read"><CasesRoutes /></RequirePermission> },
           { path: paths.adminOutbox, element: <RequirePermission permission="mail:outbox"><OutboxPage /></RequirePermission> },
+          { path: paths.adminAudit, element: <RequirePermission permission="audit:read"><AuditPage /></RequirePermission> },
           { path: `${paths.insights}/*`, element: <RequirePermission permission="insights:read"><InsightsRoutes /></RequirePermission> },
           { path: paths.adminSettings, element: <RequirePermission permission="settings:manage"><SettingsPage /></RequirePermission> },
           { path: paths.adminUsers, element: <RequirePermission permission="users:manage"><UsersPage /></RequirePermission> },

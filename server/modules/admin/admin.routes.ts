@@ -12,7 +12,7 @@ export function adminRoutes(deps: { admin: ReturnType<typeof createAdminService>
   });
 
   r.post('/users', 'users:manage', validate('body', InviteUserInput), async (req, res) => {
-    const out = await deps.admin.invite(req.user!.organisationId, res.locals.body);
+    const out = await deps.admin.invite(req.user!.organisationId, res.locals.body, req.user!.id);
     res.status(201).json(out);
   });
 
@@ -21,7 +21,7 @@ export function adminRoutes(deps: { admin: ReturnType<typeof createAdminService>
   });
 
   r.post('/users/:id/invite', 'users:manage', validate('params', IdParam), async (req, res) => {
-    res.json(await deps.admin.reissueInvite(req.user!.organisationId, res.locals.params.id));
+    res.json(await deps.admin.reissueInvite(req.user!.organisationId, res.locals.params.id, req.user!.id));
   });
 
   return r;

@@ -9,6 +9,7 @@ import { INVITE_DAYS, newInviteToken } from '../auth/auth.service';
 import type { MailService } from '../mail/mail.service';
 import { linkOrigin } from '../mail/origin';
 import { invitationMail } from '../mail/templates/invitation';
+import { audit } from '../../lib/audit';
 
 export interface AdminUserView {
   id: number;
@@ -72,7 +73,7 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
       return (await usersRepository.listByOrganisation(db, organisationId)).map(view);
     },
 
-    async invite(organisationId: number, input: InviteUserInput) {
+    async invite(organisationId: number, input: InviteUserInput, actorId: number | null = null) {
       const invite = newInviteToken();
       const out = await db.transaction(async (trx) => {
         if (await usersRepository.findByEmail(trx, input.email)) {
@@ -87,6 +88,7 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
           inviteExpiresAt: invite.expiresAt,
         });
         const user = (await usersRepository.findById(trx, id))!;
+        await audit(trx, { organisationId, userId: actorId, action: 'user.invite', entityKind: 'user', entityId: id, after: { email: user.email, roles: user.roles } });
         const mailId = await recordInvitation(trx, user, invite.token);
         return { user: view(user), inviteToken: invite.token, emailed: mailId !== null, mailId };
       });
@@ -94,13 +96,14 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
       return { user: out.user, inviteToken: out.inviteToken, emailed: out.emailed };
     },
 
-    async reissueInvite(organisationId: number, id: number) {
+    async reissueInvite(organisationId: number, id: number, actorId: number | null = null) {
       const invite = newInviteToken();
       const out = await db.transaction(async (trx) => {
         const user = await inOrg(trx, organisationId, id);
         if (user.passwordHash) throw AppError.conflict('This user has already set a password; no invitation is needed');
         await usersRepository.update(trx, id, { invite_token_hash: invite.hash, invite_expires_at: invite.expiresAt });
         const fresh = (await usersRepository.findById(trx, id))!;
+        await audit(trx, { organisationId, userId: actorId, action: 'user.reinvite', entityKind: 'user', entityId: id, after: { email: fresh.email } });
         const mailId = await recordInvitation(trx, fresh, invite.token);
         return { user: view(fresh), inviteToken: invite.token, emailed: mailId !== null, mailId };
       });
@@ -129,7 +132,11 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
         }
         await usersRepository.update(trx, id, row);
         if (patch.active === false) await usersRepository.deleteSessions(trx, id);
-        return view((await usersRepository.findById(trx, id))!);
+        const after = (await usersRepository.findById(trx, id))!;
+        const summary = (u: UserRecord) => ({ name: u.name, roles: u.roles, active: u.active });
+        const action = patch.active === false && user.active ? 'user.deactivate' : patch.active === true && !user.active ? 'user.reactivate' : patch.roles !== undefined ? 'user.roles' : 'user.update';
+        await audit(trx, { organisationId, userId: actingUserId, action, entityKind: 'user', entityId: id, before: summary(user), after: summary(after) });
+        return view(after);
       });
     },
   };

@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import { z } from 'zod';
 import { ApiRouter } from '../../lib/routes';
 import { validate } from '../../lib/validate';
+import { audit } from '../../lib/audit';
 
 export const SettingsInput = z.object({
   allowSelfPublish: z.boolean({ error: 'Allow self-publish must be true or false' }).optional(),
@@ -24,6 +25,15 @@ export function settingsRoutes(deps: { db: Knex }) {
       const org = await trx('organisations').where({ id: req.user!.organisationId }).forUpdate().first();
       const settings = { ...(org.settings ?? {}), ...(allowSelfPublish !== undefined ? { allowSelfPublish } : {}) };
       await trx('organisations').where({ id: org.id }).update({ settings: JSON.stringify(settings), ...(name ? { name } : {}), updated_at: trx.fn.now() });
+      await audit(trx, {
+        organisationId: org.id,
+        userId: req.user!.id,
+        action: 'settings.update',
+        entityKind: 'organisation',
+        entityId: org.id,
+        before: { name: org.name, allowSelfPublish: Boolean(org.settings?.allowSelfPublish) },
+        after: { name: name ?? org.name, allowSelfPublish: Boolean(settings.allowSelfPublish) },
+      });
     });
     res.json({ settings: await read(req.user!.organisationId) });
   });

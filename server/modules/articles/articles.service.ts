@@ -16,6 +16,7 @@ import { prepareRichText } from '../../lib/rich-text';
 import type { FilesService } from '../files/files.service';
 import type { TagsService } from '../tags/tags.service';
 import { articlesRepository as repo, toRevision, type ArticleRow, type RevisionRow } from './articles.repository';
+import { audit } from '../../lib/audit';
 
 /** Autosaves by the same author within this window fold into the revision they started. */
 export const AUTOSAVE_FOLD_MS = 5 * 60 * 1000;
@@ -117,6 +118,9 @@ export function createArticlesService(deps: { db: Knex; tags: TagsService; files
       const head = await repo.revisionById(trx, a.head_revision_id);
       await touch(trx, a, { workflow: to, ...extra });
       await repo.event(trx, a.id, event, user.id, head?.number ?? null, comment);
+      if (event === 'archived' || event === 'restored') {
+        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: `article.${event === 'archived' ? 'archive' : 'unarchive'}`, entityKind: 'article', entityId: a.id, before: { title: head?.title, workflow: a.workflow }, after: { title: head?.title, workflow: to } });
+      }
       return detail(trx, user, (await repo.find(trx, user.organisationId, id))!);
     });
   }
@@ -205,6 +209,7 @@ export function createArticlesService(deps: { db: Knex; tags: TagsService; files
         const head = (await repo.revisionById(trx, a.head_revision_id))!;
         await touch(trx, a, { workflow: 'published', published_revision_id: a.head_revision_id, reviewed_by: user.id, reviewed_at: trx.fn.now() });
         await repo.event(trx, a.id, 'approved', user.id, head.number, comment);
+        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'article.approve', entityKind: 'article', entityId: a.id, before: { title: head.title, workflow: a.workflow }, after: { title: head.title, workflow: 'published', revision: head.number } });
         return detail(trx, user, (await repo.find(trx, user.organisationId, id))!);
       });
     },

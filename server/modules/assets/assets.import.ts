@@ -38,6 +38,7 @@ import { booleanCell, choiceCell, dateCell, headerKey, integerCell, numberCell, 
 import { byDate, readingProblem, type ReadingPoint } from './assets.counters';
 import { assetsRepository as repo } from './assets.repository';
 import { applicatorColumns, checkCustom, standardFieldClash } from './assets.service';
+import { audit } from '../../lib/audit';
 
 interface Checked {
   row: number;
@@ -380,6 +381,7 @@ export function createAssetsImport(deps: { db: Knex }) {
         const good = checked.filter((c) => c.insert).map((c) => c.insert!);
         if (!good.length) throw AppError.invalid('No row of the file is valid, so nothing was imported', { file: 'No valid rows' });
         for (let i = 0; i < good.length; i += 1000) await trx(TABLES[kind]).insert(good.slice(i, i + 1000));
+        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'assets.import', entityKind: kind, after: { imported: good.length, skippedRows: bad.length, mode } });
         return { kind, imported: good.length, skipped: listed, skippedRows: bad.length };
       });
     },

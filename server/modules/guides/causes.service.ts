@@ -5,6 +5,7 @@ import type { Knex } from 'knex';
 import type { CauseListInput, CauseView } from '../../../src/shared/schemas/guides';
 import { DEFAULT_CAUSES } from '../../../src/shared/tags';
 import { AppError } from '../../lib/app-error';
+import { audit } from '../../lib/audit';
 
 interface CauseRow {
   code: string;
@@ -46,7 +47,7 @@ export function createCausesService(db: Knex) {
     },
 
     /** Replaces the active list; codes left out become inactive. */
-    async replace(organisationId: number, causes: CauseListInput['causes']): Promise<CauseView[]> {
+    async replace(organisationId: number, causes: CauseListInput['causes'], actorId: number | null = null): Promise<CauseView[]> {
       const fields: Record<string, string> = {};
       const seen = new Set<string>();
       causes.forEach((c, i) => {
@@ -58,6 +59,7 @@ export function createCausesService(db: Knex) {
         // Two admins replacing the list at once would otherwise leave the union of both lists.
         await trx('organisations').where({ id: organisationId }).forUpdate().first();
         await ensure(trx, organisationId);
+        const before = (await list(trx, organisationId)).map((c) => c.code);
         await trx('causes').where({ organisation_id: organisationId }).update({ active: false });
         for (const [i, c] of causes.entries()) {
           await trx('causes')
@@ -65,6 +67,7 @@ export function createCausesService(db: Knex) {
             .onConflict(['organisation_id', 'code'])
             .merge(['label', 'component', 'active', 'position']);
         }
+        await audit(trx, { organisationId, userId: actorId, action: 'causes.replace', entityKind: 'causes', before: { active: before }, after: { active: causes.map((c) => c.code) } });
         return list(trx, organisationId, { includeInactive: true });
       });
     },

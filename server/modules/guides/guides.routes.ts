@@ -99,7 +99,7 @@ export function guidesRoutes(deps: GuidesDeps): ApiRouter[] {
     res.json({ causes: await causes.list(req.user!.organisationId, { includeInactive: res.locals.query.includeInactive === '1' }) });
   });
   c.put('/', 'causes:manage', validate('body', CauseListInput), async (req, res) => {
-    res.json({ causes: await causes.replace(req.user!.organisationId, res.locals.body.causes) });
+    res.json({ causes: await causes.replace(req.user!.organisationId, res.locals.body.causes, req.user!.id) });
   });
 
   return [r, c];

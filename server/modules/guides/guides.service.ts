@@ -33,6 +33,7 @@ import type { CausesService } from './causes.service';
 import { compareVersions } from './guides.compare';
 import { problemsError, zodProblems, type PathProblem } from './guides.problems';
 import { guidesRepository as repo, toVersion, type GuideRow, type VersionFields, type VersionRow } from './guides.repository';
+import { audit } from '../../lib/audit';
 
 // Declarations never change while the server runs.
 const CALCULATORS = listCalculators();
@@ -417,6 +418,7 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         });
         await bump(trx, g, { published_version_id: draft.id, draft_version_id: null });
         await repo.event(trx, g.id, 'approved', user.id, draft.number, input.comment);
+        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'guide.approve', entityKind: 'guide', entityId: g.id, before: { publishedVersionId: g.published_version_id }, after: { title: draft.title, version: draft.number } });
         return reload(trx, user, id);
       });
     },
@@ -439,6 +441,7 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         if (g.status === 'retired') throw AppError.conflict('This guide is already retired.');
         await repo.updateGuide(trx, g.id, { status: 'retired', retired_at: trx.fn.now() });
         await repo.event(trx, g.id, 'retired', user.id, null);
+        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'guide.retire', entityKind: 'guide', entityId: g.id, before: { status: g.status }, after: { status: 'retired' } });
         return reload(trx, user, id);
       });
     },
@@ -449,6 +452,7 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         if (g.status !== 'retired') throw AppError.conflict('This guide is not retired.');
         await repo.updateGuide(trx, g.id, { status: 'active', retired_at: null });
         await repo.event(trx, g.id, 'restored', user.id, null);
+        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'guide.restore', entityKind: 'guide', entityId: g.id, before: { status: g.status }, after: { status: 'active' } });
         return reload(trx, user, id);
       });
     },
@@ -481,6 +485,8 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         content: content as GuideContent,
         exportedAt: new Date(),
       });
+      // Exports leave the building, so who took which version out is worth keeping.
+      await audit(db, { organisationId: user.organisationId, userId: user.id, action: 'guide.export', entityKind: 'guide', entityId: g.id, after: { title: v.title, version: v.number } });
       return { file, filename: `${slugify(v.title) || 'guide'}.beadpath-guide.json` };
     },
 
@@ -498,6 +504,7 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         const meta = { title: file.guide.title, symptom: file.guide.symptom, summary: file.guide.summary ?? '', tags };
         const fields = versionFields(meta, content, await validationContext(trx, user.organisationId));
         const guide = await createGuide(trx, user, fields, 'imported', `From a file exported at ${file.exportedAt}`);
+        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'guide.import', entityKind: 'guide', entityId: guide.id, after: { title: meta.title, causesAdded: causesAdded.length, exportedAt: file.exportedAt } });
         return { guide, dropped: { ...dropped, tags: droppedTags }, causesAdded };
       });
     },

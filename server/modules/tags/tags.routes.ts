@@ -17,7 +17,7 @@ export function adminTagsRoutes(deps: { tags: TagsService }) {
     res.json({ tags: await deps.tags.list(req.user!.organisationId, { includeInactive: true }) });
   });
   r.put('/', 'tags:manage', validate('body', TagListInput), async (req, res) => {
-    res.json({ tags: await deps.tags.replace(req.user!.organisationId, res.locals.body.tags) });
+    res.json({ tags: await deps.tags.replace(req.user!.organisationId, res.locals.body.tags, req.user!.id) });
   });
   return r;
 }

@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import { z } from 'zod';
 import { DEFAULT_TAGS, TAG_GROUPS, type TagGroup } from '../../../src/shared/tags';
 import { AppError } from '../../lib/app-error';
+import { audit } from '../../lib/audit';
 
 export interface TagView {
   group: TagGroup;
@@ -45,7 +46,7 @@ export function createTagsService(db: Knex) {
       return new Set((await this.list(organisationId)).map((t) => t.slug));
     },
     /** Replaces the lists; tags left out are kept but made inactive so old content keeps its labels. */
-    async replace(organisationId: number, tags: z.output<typeof TagListInput>['tags']) {
+    async replace(organisationId: number, tags: z.output<typeof TagListInput>['tags'], actorId: number | null = null) {
       const seen = new Set<string>();
       for (const [i, t] of tags.entries()) {
         if (seen.has(t.slug)) throw AppError.invalid(`The tag '${t.slug}' is listed twice`, { [`tags.${i}.slug`]: 'Listed twice' });
@@ -53,6 +54,7 @@ export function createTagsService(db: Knex) {
       }
       await db.transaction(async (trx) => {
         await ensure(trx, organisationId);
+        const before = (await trx('tags').where({ organisation_id: organisationId, active: true }).orderBy('position').select('group', 'slug')).map((r) => `${r.group}:${r.slug}`);
         await trx('tags').where({ organisation_id: organisationId }).update({ active: false });
         for (const [i, t] of tags.entries()) {
           await trx('tags')
@@ -60,6 +62,8 @@ export function createTagsService(db: Knex) {
             .onConflict(['organisation_id', 'group', 'slug'])
             .merge(['label', 'active', 'position']);
         }
+        const after = tags.filter((t) => t.active).map((t) => `${t.group}:${t.slug}`);
+        await audit(trx, { organisationId, userId: actorId, action: 'tags.replace', entityKind: 'tags', before: { active: before }, after: { active: after } });
       });
       return this.list(organisationId, { includeInactive: true });
     },

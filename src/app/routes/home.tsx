@@ -14,13 +14,17 @@ import { OpenWalks } from '@/features/walks/components/open-walks';
 import { SymptomChips } from '@/features/guides/components/symptom-chips';
 import { SymptomSearch } from '@/features/search/components/symptom-search';
 import { GuideFeedback } from '@/features/guides/components/guide-feedback';
-import { CaseQueue, NoticesList } from '@/features/cases/components/cases-routes';
+// Straight from their files: cases-routes pulls in the case table and its table library.
+import { CaseQueue } from '@/features/cases/components/case-queue';
+import { NoticesList } from '@/features/cases/components/notices-list';
+import { ManagerSummary } from '@/features/insights/components/manager-summary';
+import { FirstRunChecklist } from './first-run-checklist';
 
 const LEADS: Record<Role, string> = {
   technician: 'Tap what you see to walk its guide, or work out a reading with a calculator.',
   author: 'Reviews waiting for you, your drafts, and the numbers to check before you write them down.',
   support: 'Log each call, walk a guide with the caller, hand off or resolve, and send the summary.',
-  manager: 'Forecast seat, needle and seal service from cycle counts, and fit failure data.',
+  manager: 'What keeps failing and where, what is due for service, and which guides work.',
   admin: 'Set Beadpath up for your organisation.',
 };
 
@@ -45,6 +49,8 @@ export function HomeRoute() {
       </div>
       <NoticesList />
       {current === 'support' ? <CaseQueue /> : null}
+      {current === 'manager' ? <ManagerSummary /> : null}
+      {current === 'admin' ? <FirstRunChecklist /> : null}
       {current === 'admin' ? (
         <Card>
           <h2 className="text-lg font-semibold">People</h2>

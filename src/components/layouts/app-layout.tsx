@@ -1,5 +1,5 @@
 // The signed-in frame: header with navigation allowed by the user's roles, the page, the safety footer.
-import { useEffect, useState } from 'react';
+import { Suspense, useEffect, useState } from 'react';
 import { Link, NavLink, Navigate, Outlet, useLocation, useNavigate } from 'react-router';
 import { can, ROLE_LABELS } from '@/shared/permissions';
 import { NAV } from '@/app/nav';
@@ -7,7 +7,12 @@ import { useLogout, useMe } from '@/lib/auth';
 import { paths } from '@/lib/paths';
 import { Icon, Wordmark } from '@/components/ui/icons';
 import { LoadingBlock, Toaster } from '@/components/ui/feedback';
-import { HeaderSearch } from '@/features/search/components/header-search';
+import { lazyPage } from '@/app/lazy-page';
+import { useOnline } from '@/lib/use-online';
+
+// The search box and its results list load after the frame, keeping them out of every page's
+// first download; the placeholder holds its place so the header does not shift.
+const HeaderSearch = lazyPage(() => import('@/features/search/components/header-search'), 'HeaderSearch');
 
 // More entries than this go under "More" so the header fits a laptop screen.
 const INLINE_ITEMS = 6;
@@ -18,6 +23,7 @@ export function AppLayout() {
   const navigate = useNavigate();
   const logout = useLogout();
   const [menuOpen, setMenuOpen] = useState(false);
+  const online = useOnline();
   useEffect(() => setMenuOpen(false), [location.pathname]);
 
   if (isPending) {
@@ -64,7 +70,11 @@ export function AppLayout() {
               </details>
             ) : null}
           </nav>
-          {can(me.user.roles, 'search:use') ? <HeaderSearch /> : null}
+          {can(me.user.roles, 'search:use') ? (
+            <Suspense fallback={<div className="min-h-11 min-w-0 flex-1 md:w-11 md:flex-none" />}>
+              <HeaderSearch />
+            </Suspense>
+          ) : null}
           <div className="ml-auto hidden items-center gap-2 md:flex">
             <NavLink to={paths.account} className={link}>
               <Icon.account />
@@ -111,15 +121,26 @@ export function AppLayout() {
           </nav>
         ) : null}
       </header>
+      {online ? null : (
+        <p role="status" className="border-b border-amber-line bg-amber-wash px-4 py-2 text-center text-sm font-semibold text-amber-deep">
+          No connection — walks keep your answers on this phone
+        </p>
+      )}
       <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6">
-        <Outlet />
+        {/* Pages load on first visit; the skeleton holds their place inside the frame. */}
+        <Suspense fallback={<LoadingBlock label="Loading the page" />}>
+          <Outlet />
+        </Suspense>
       </main>
       <footer className="border-t border-rule bg-paper-sunk px-4 py-4 text-sm text-ink-soft">
         <p className="mx-auto max-w-6xl">
           Beadpath guides and calculators support trained people; they do not replace them. Before servicing a valve, follow
           local codes, your site&rsquo;s rules, the equipment maker&rsquo;s manual and the fluid&rsquo;s safety data sheet: lock
           out and tag out every energy source and relieve air and fluid pressure first. Signed in as {me.user.email} ·{' '}
-          {me.user.roles.map((r) => ROLE_LABELS[r]).join(', ')} · {me.user.organisationName}
+          {me.user.roles.map((r) => ROLE_LABELS[r]).join(', ')} · {me.user.organisationName} ·{' '}
+          <Link to={paths.help} className="font-semibold text-amber-deep underline">
+            Help and keyboard shortcuts
+          </Link>
         </p>
       </footer>
       <Toaster />
