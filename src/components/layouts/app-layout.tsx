@@ -15,7 +15,7 @@ import { useOnline } from '@/lib/use-online';
 const HeaderSearch = lazyPage(() => import('@/features/search/components/header-search'), 'HeaderSearch');
 
 // More entries than this go under "More" so the header fits a laptop screen.
-const INLINE_ITEMS = 6;
+const INLINE_ITEMS = 5;
 
 export function AppLayout() {
   const { data: me, isPending } = useMe();
@@ -37,7 +37,7 @@ export function AppLayout() {
 
   const items = NAV.filter((i) => !i.permission || can(me.user.roles, i.permission));
   const link = ({ isActive }: { isActive: boolean }) =>
-    `flex min-h-11 items-center gap-2 rounded-md px-3 font-semibold ${isActive ? 'bg-amber-wash text-amber-deep' : 'text-ink hover:bg-paper-sunk'}`;
+    `flex min-h-11 items-center gap-2 whitespace-nowrap rounded-md px-3 font-semibold ${isActive ? 'bg-amber-wash text-amber-deep' : 'text-ink hover:bg-paper-sunk'}`;
 
   return (
     <div className="flex min-h-dvh flex-col">
@@ -58,7 +58,7 @@ export function AppLayout() {
             ))}
             {items.length > INLINE_ITEMS ? (
               <details className="relative">
-                <summary className="flex min-h-11 cursor-pointer list-none items-center rounded-md px-3 font-semibold text-ink hover:bg-paper-sunk">More ▾</summary>
+                <summary className="flex min-h-11 cursor-pointer list-none items-center whitespace-nowrap rounded-md px-3 font-semibold text-ink hover:bg-paper-sunk">More ▾</summary>
                 <div className="absolute left-0 z-40 mt-1 w-56 rounded-md border border-rule bg-paper-raised p-1 shadow-lg">
                   {items.slice(INLINE_ITEMS).map((i) => (
                     <NavLink key={i.to} to={i.to} className={link} onClick={(e) => e.currentTarget.closest('details')?.removeAttribute('open')}>
@@ -78,9 +78,10 @@ export function AppLayout() {
           <div className="ml-auto hidden items-center gap-2 md:flex">
             <NavLink to={paths.account} className={link}>
               <Icon.account />
-              <span className="max-w-40 truncate">{me.user.name}</span>
+              <span className="hidden max-w-40 truncate xl:inline">{me.user.name}</span>
+              <span className="sr-only xl:hidden">Account</span>
             </NavLink>
-            <button type="button" className="min-h-11 rounded-md px-3 font-semibold text-ink-soft hover:bg-paper-sunk" onClick={() => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn) })}>
+            <button type="button" className="min-h-11 whitespace-nowrap rounded-md px-3 font-semibold text-ink-soft hover:bg-paper-sunk" onClick={() => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn) })}>
               Sign out
             </button>
           </div>

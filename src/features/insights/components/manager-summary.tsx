@@ -1,27 +1,26 @@
-// The manager's home: this month's top causes as a small Pareto list, repeat failures, and
+// The manager's home: the last 30 days' top causes as a small Pareto list, repeat failures, and
 // services due in the next 30 days, each leading into Insights.
 import { Link } from 'react-router';
 import { Skeleton } from '@/components/ui/feedback';
 import { useCauses, useForecast } from '../api/insights';
 
-function monthStart(): string {
-  const d = new Date();
-  return new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), 1)).toISOString().slice(0, 10);
+function daysAgo(n: number): string {
+  return new Date(Date.now() - n * 86_400_000).toISOString().slice(0, 10);
 }
 
 export function ManagerSummary() {
-  const causes = useCauses({ from: monthStart() });
+  const causes = useCauses({ from: daysAgo(30) });
   const forecast = useForecast({ days: '30' });
   return (
     <div className="grid gap-4 lg:grid-cols-2">
-      <section aria-label="Top causes this month" className="rounded-lg border border-rule bg-paper-raised p-4">
-        <h2 className="text-lg font-semibold">Top causes this month</h2>
+      <section aria-label="Top causes, last 30 days" className="rounded-lg border border-rule bg-paper-raised p-4">
+        <h2 className="text-lg font-semibold">Top causes, last 30 days</h2>
         {causes.isPending ? (
           <Skeleton className="mt-2 h-24 w-full" />
         ) : causes.isError ? (
           <p className="text-danger">Could not be loaded.</p>
         ) : causes.data.empty || !causes.data.pareto.length ? (
-          <p className="mt-1 text-ink-soft">{causes.data.empty ?? 'No causes recorded this month yet.'}</p>
+          <p className="mt-1 text-ink-soft">{causes.data.empty ?? 'No causes recorded in the last 30 days.'}</p>
         ) : (
           <ol className="mt-2 space-y-1">
             {causes.data.pareto.slice(0, 5).map((b) => {
