@@ -6,12 +6,12 @@ import { Link, useNavigate, useParams, useSearchParams } from 'react-router';
 import { SERVICE_ACTION_LABELS, SERVICE_ACTIONS, localToday, type ApplicatorDetail, type ServiceAction } from '@/shared/schemas/assets';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { useMe } from '@/lib/auth';
-import { uploadFile } from '@/lib/uploads';
 import { showToast } from '@/lib/toasts';
 import { Button } from '@/components/ui/button';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
 import { inputClass, SelectField, TextField } from '@/components/ui/field';
 import { NotFoundPage } from '@/components/errors/route-error';
+import { PhotoCaptureButton } from '@/components/ui/photo-capture';
 import { useAddServiceEvent, useApplicator, useCauses } from '../api/assets';
 import { ACTIONS_FOR_CAUSE, exactCycles, longDate } from '../utils/format';
 import { ServiceCaution } from './applicator-page';
@@ -49,7 +49,6 @@ function ServiceForm({ a }: { a: ApplicatorDetail }) {
   const [performedBy, setPerformedBy] = useState(me?.user.name ?? '');
   const [notes, setNotes] = useState('');
   const [photos, setPhotos] = useState<{ id: string; url: string }[]>([]);
-  const [uploading, setUploading] = useState(false);
   const [fields, setFields] = useState<Record<string, string>>({});
 
   const toggle = (x: ServiceAction) => setActions((list) => (list.includes(x) ? list.filter((y) => y !== x) : [...list, x]));
@@ -183,29 +182,7 @@ function ServiceForm({ a }: { a: ApplicatorDetail }) {
       </label>
 
       <div>
-        <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold">
-          {uploading ? 'Uploading…' : 'Take or add a photo'}
-          <input
-            type="file"
-            accept="image/jpeg,image/png,image/webp"
-            capture="environment"
-            className="sr-only"
-            onChange={async (e) => {
-              const file = e.target.files?.[0];
-              e.target.value = '';
-              if (!file) return;
-              setUploading(true);
-              try {
-                const up = await uploadFile(file);
-                setPhotos((x) => [...x, { id: up.id, url: up.urls.thumb }]);
-              } catch (err) {
-                showToast(`The photo was not added: ${errorMessage(err)}`, 'error');
-              } finally {
-                setUploading(false);
-              }
-            }}
-          />
-        </label>
+        <PhotoCaptureButton onAdded={(photo) => setPhotos((x) => [...x, photo])} />
         {fields.fileIds ? <p className="mt-1 text-sm font-semibold text-danger">{fields.fileIds}</p> : null}
         <div className="mt-2 flex flex-wrap gap-2">
           {photos.map((p) => (
@@ -217,7 +194,7 @@ function ServiceForm({ a }: { a: ApplicatorDetail }) {
       {problem ? <Notice tone="error" title={problem} /> : null}
       <div className="fixed inset-x-0 bottom-0 z-20 border-t border-rule bg-paper/95 px-4 py-2 backdrop-blur">
         <div className="mx-auto max-w-xl">
-          <Button type="submit" className="w-full !min-h-14 text-lg" busy={add.isPending || uploading}>Record service</Button>
+          <Button type="submit" className="w-full !min-h-14 text-lg" busy={add.isPending}>Record service</Button>
         </div>
       </div>
     </form>

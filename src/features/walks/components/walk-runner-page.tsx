@@ -8,10 +8,10 @@ import { previousStepId } from '@/shared/walks';
 import type { WalkDetail } from '@/shared/schemas/walks';
 import { api, ApiError, errorMessage } from '@/lib/api-client';
 import { useCan, useMe } from '@/lib/auth';
-import { uploadFile } from '@/lib/uploads';
 import { showToast } from '@/lib/toasts';
 import { Button } from '@/components/ui/button';
 import { Dialog } from '@/components/ui/dialog';
+import { PhotoCaptureButton } from '@/components/ui/photo-capture';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
 import { inputClass } from '@/components/ui/field';
 import { NotFoundPage } from '@/components/errors/route-error';
@@ -207,34 +207,11 @@ function Runner({ walk }: { walk: WalkDetail }) {
 function NoteDialog({ open, onClose, onSave }: { open: boolean; onClose: () => void; onSave: (text: string, fileIds: string[]) => Promise<void> }) {
   const [text, setText] = useState('');
   const [files, setFiles] = useState<{ id: string; url: string }[]>([]);
-  const [uploading, setUploading] = useState(false);
   return (
     <Dialog open={open} title="Note or photo" onClose={onClose}>
       <div className="space-y-3">
         <textarea aria-label="Note" className={inputClass} rows={3} value={text} onChange={(e) => setText(e.target.value)} placeholder="What you saw or did" />
-        <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold">
-          {uploading ? 'Uploading…' : 'Take or add a photo'}
-          <input
-            type="file"
-            accept="image/jpeg,image/png,image/webp"
-            capture="environment"
-            className="sr-only"
-            onChange={async (e) => {
-              const f = e.target.files?.[0];
-              e.target.value = '';
-              if (!f) return;
-              setUploading(true);
-              try {
-                const up = await uploadFile(f);
-                setFiles((x) => [...x, { id: up.id, url: up.urls.thumb }]);
-              } catch (err) {
-                showToast(`The photo was not added: ${errorMessage(err)}`, 'error');
-              } finally {
-                setUploading(false);
-              }
-            }}
-          />
-        </label>
+        <PhotoCaptureButton onAdded={(photo) => setFiles((x) => [...x, photo])} />
         <div className="flex flex-wrap gap-2">{files.map((f) => <img key={f.id} src={f.url} alt="Photo added to the note" className="size-20 rounded object-cover" />)}</div>
         <div className="flex justify-end gap-2">
           <Button variant="secondary" onClick={onClose}>Cancel</Button>
