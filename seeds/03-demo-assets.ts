@@ -3,6 +3,7 @@
 // to today so the forecasts look live. Idempotent: skipped when the organisation has sites.
 import type { Knex } from 'knex';
 import { DEMO_ORGANISATION } from './01-demo-organisation';
+import { APPLICATOR_SPEC_COLUMNS } from '../server/modules/assets/assets.repository';
 
 const DAY_MS = 86_400_000;
 const daysAgo = (n: number) => new Date(Date.now() - n * DAY_MS).toISOString().slice(0, 10);
@@ -100,29 +101,7 @@ const APPLICATORS: DemoApplicator[] = [
   },
 ];
 
-const COLUMN: Record<string, string> = {
-  actuation: 'actuation',
-  coilDrive: 'coil_drive',
-  airPressureBar: 'air_pressure_bar',
-  needleTip: 'needle_tip',
-  needleMaterial: 'needle_material',
-  seatMaterial: 'seat_material',
-  orificeDiameterMm: 'orifice_diameter_mm',
-  nozzle: 'nozzle',
-  fluidFamily: 'fluid_family',
-  fluidName: 'fluid_name',
-  viscosityMPas: 'viscosity_mpa_s',
-  viscosityTemperatureC: 'viscosity_temperature_c',
-  densityGPerCm3: 'density_g_cm3',
-  heated: 'heated',
-  setTemperatureC: 'set_temperature_c',
-  installedOn: 'installed_on',
-  status: 'status',
-  cyclesPerMinute: 'cycles_per_minute',
-  hoursPerDay: 'hours_per_day',
-  daysPerWeek: 'days_per_week',
-  sealsIntervalCycles: 'seals_interval_cycles',
-};
+
 
 export async function seed(knex: Knex): Promise<void> {
   if (process.env.BEADPATH_DEMO !== '1') return;
@@ -142,7 +121,7 @@ export async function seed(knex: Knex): Promise<void> {
     const ids = new Map<string, number>();
     for (const a of APPLICATORS) {
       const cols: Record<string, unknown> = {};
-      for (const [k, v] of Object.entries(a.spec)) cols[COLUMN[k]] = v;
+      for (const [k, v] of Object.entries(a.spec)) cols[APPLICATOR_SPEC_COLUMNS[k]] = v;
       const custom: Record<string, unknown> = {};
       if (a.custom?.coil !== undefined) custom[coil.id] = a.custom.coil;
       if (a.custom?.shelf !== undefined) custom[shelf.id] = a.custom.shelf;

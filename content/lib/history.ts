@@ -7,6 +7,7 @@ import type { FindingStep, GuideContent, MeasureStep, Step } from '../../src/sha
 import type { WalkAnswer } from '../../src/shared/walks/answers';
 import { nextStepFor, replayPath } from '../../src/shared/walks/walk-path';
 import { SAMPLE_GUIDE_KEY, Scenario, readContent, type ContentSet } from './content';
+import { APPLICATOR_SPEC_COLUMNS } from '../../server/modules/assets/assets.repository';
 
 /** Everything a history generator gets. Ids are this database's; keys are content/'s. */
 export interface HistoryContext {
@@ -216,31 +217,7 @@ export interface PlanInput {
 
 type ScenarioApplicator = Scenario['applicators'][number] & Record<string, unknown>;
 
-const COLUMNS: Record<string, string> = {
-  actuation: 'actuation',
-  coilDrive: 'coil_drive',
-  airPressureBar: 'air_pressure_bar',
-  needleTip: 'needle_tip',
-  needleMaterial: 'needle_material',
-  seatMaterial: 'seat_material',
-  orificeDiameterMm: 'orifice_diameter_mm',
-  nozzle: 'nozzle',
-  fluidFamily: 'fluid_family',
-  fluidName: 'fluid_name',
-  viscosityMPas: 'viscosity_mpa_s',
-  viscosityTemperatureC: 'viscosity_temperature_c',
-  densityGPerCm3: 'density_g_cm3',
-  heated: 'heated',
-  setTemperatureC: 'set_temperature_c',
-  installedOn: 'installed_on',
-  status: 'status',
-  cyclesPerMinute: 'cycles_per_minute',
-  hoursPerDay: 'hours_per_day',
-  daysPerWeek: 'days_per_week',
-  seatIntervalCycles: 'seat_interval_cycles',
-  needleIntervalCycles: 'needle_interval_cycles',
-  sealsIntervalCycles: 'seals_interval_cycles',
-};
+
 
 // The controller swap that restarts one counter: a planned event, not a story of its own.
 const CONTROLLER_SWAP = { tags: ['V-103', 'V-101', 'G-501'], day: 212 };
@@ -569,7 +546,7 @@ export function planHistory(input: PlanInput): HistoryPlan {
     const line = lineOf.get(app.line);
     if (!line) continue;
     const columns: Record<string, unknown> = {};
-    for (const [k, col] of Object.entries(COLUMNS)) if (app[k] !== undefined) columns[col] = app[k];
+    for (const [k, col] of Object.entries(APPLICATOR_SPEC_COLUMNS)) if (app[k] !== undefined) columns[col] = app[k];
     // The row is the valve as it is today: Line 4 runs the filled glue since the change.
     if (app.line === seatLine && app.fluidName === seatStory.fromFluid && typeof seatStory.toFluid === 'string') {
       columns.fluid_name = seatStory.toFluid;

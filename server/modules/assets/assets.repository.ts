@@ -409,3 +409,30 @@ export const assetsRepository = {
     return new Set(rows.map((r) => String(r.id).toLowerCase()));
   },
 };
+
+/** Applicator spec fields (camelCase, as in the API) and the columns that hold them; used by the demo seeds. */
+export const APPLICATOR_SPEC_COLUMNS: Readonly<Record<string, string>> = {
+  actuation: 'actuation',
+  coilDrive: 'coil_drive',
+  airPressureBar: 'air_pressure_bar',
+  needleTip: 'needle_tip',
+  needleMaterial: 'needle_material',
+  seatMaterial: 'seat_material',
+  orificeDiameterMm: 'orifice_diameter_mm',
+  nozzle: 'nozzle',
+  fluidFamily: 'fluid_family',
+  fluidName: 'fluid_name',
+  viscosityMPas: 'viscosity_mpa_s',
+  viscosityTemperatureC: 'viscosity_temperature_c',
+  densityGPerCm3: 'density_g_cm3',
+  heated: 'heated',
+  setTemperatureC: 'set_temperature_c',
+  installedOn: 'installed_on',
+  status: 'status',
+  cyclesPerMinute: 'cycles_per_minute',
+  hoursPerDay: 'hours_per_day',
+  daysPerWeek: 'days_per_week',
+  seatIntervalCycles: 'seat_interval_cycles',
+  needleIntervalCycles: 'needle_interval_cycles',
+  sealsIntervalCycles: 'seals_interval_cycles',
+};
