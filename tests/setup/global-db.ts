@@ -18,7 +18,9 @@ declare module 'vitest' {
 
 export async function prepareTemplate(projectName: string) {
   const cluster = await ensureCluster({ name: 'pg-test', durable: false, log: () => {} });
-  const template = `tpl_${projectName}`;
+  // TEST_DB_TAG lets several test runs share the cluster without dropping each other's template.
+  const tag = (process.env.TEST_DB_TAG ?? '').replace(/[^a-z0-9]/gi, '').toLowerCase();
+  const template = `tpl_${projectName}${tag ? `_${tag}` : ''}`;
   dropDatabase(cluster, template);
   ensureDatabase(cluster, template);
   const db = createDb(cluster.urlFor(template), { max: 1 });

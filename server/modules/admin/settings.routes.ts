@@ -1,41 +1,48 @@
-// /api/admin/settings: organisation-wide settings (today: whether authors may publish their own work).
+// /api/admin/settings: organisation-wide settings (self-publishing, default unit system,
+// default service intervals). Read elsewhere through readOrgSettings.
 import type { Knex } from 'knex';
-import { z } from 'zod';
 import { ApiRouter } from '../../lib/routes';
 import { validate } from '../../lib/validate';
 import { audit } from '../../lib/audit';
+import { SettingsInput, orgSettingsFrom, type OrgSettings, type SettingsPatch } from '../../../src/shared/schemas/settings';
 
-export const SettingsInput = z.object({
-  allowSelfPublish: z.boolean({ error: 'Allow self-publish must be true or false' }).optional(),
-  name: z.string().trim().min(1, 'Organisation name is required').max(120).optional(),
-});
+export { SettingsInput };
+
+export async function readOrgSettings(db: Knex | Knex.Transaction, organisationId: number): Promise<OrgSettings> {
+  const org = await db('organisations').where({ id: organisationId }).first('name', 'settings');
+  return orgSettingsFrom(org);
+}
 
 export function settingsRoutes(deps: { db: Knex }) {
   const r = new ApiRouter('/api/admin/settings');
-  const read = async (id: number) => {
-    const org = await deps.db('organisations').where({ id }).first();
-    return { name: org.name as string, allowSelfPublish: Boolean(org.settings?.allowSelfPublish) };
-  };
   r.get('/', 'settings:manage', async (req, res) => {
-    res.json({ settings: await read(req.user!.organisationId) });
+    res.json({ settings: await readOrgSettings(deps.db, req.user!.organisationId) });
   });
   r.patch('/', 'settings:manage', validate('body', SettingsInput), async (req, res) => {
-    const { name, allowSelfPublish } = res.locals.body as z.output<typeof SettingsInput>;
+    const patch = res.locals.body as SettingsPatch;
     await deps.db.transaction(async (trx) => {
       const org = await trx('organisations').where({ id: req.user!.organisationId }).forUpdate().first();
-      const settings = { ...(org.settings ?? {}), ...(allowSelfPublish !== undefined ? { allowSelfPublish } : {}) };
-      await trx('organisations').where({ id: org.id }).update({ settings: JSON.stringify(settings), ...(name ? { name } : {}), updated_at: trx.fn.now() });
+      const before = orgSettingsFrom(org);
+      const settings: Record<string, unknown> = { ...(org.settings ?? {}) };
+      if (patch.allowSelfPublish !== undefined) settings.allowSelfPublish = patch.allowSelfPublish;
+      if (patch.defaultUnitSystem !== undefined) settings.defaultUnitSystem = patch.defaultUnitSystem;
+      if (patch.serviceIntervals === null) delete settings.serviceIntervals;
+      else if (patch.serviceIntervals !== undefined) settings.serviceIntervals = patch.serviceIntervals;
+      await trx('organisations')
+        .where({ id: org.id })
+        .update({ settings: JSON.stringify(settings), ...(patch.name ? { name: patch.name } : {}), updated_at: trx.fn.now() });
+      const after = orgSettingsFrom({ name: patch.name ?? org.name, settings });
       await audit(trx, {
         organisationId: org.id,
         userId: req.user!.id,
         action: 'settings.update',
         entityKind: 'organisation',
         entityId: org.id,
-        before: { name: org.name, allowSelfPublish: Boolean(org.settings?.allowSelfPublish) },
-        after: { name: name ?? org.name, allowSelfPublish: Boolean(settings.allowSelfPublish) },
+        before: { name: before.name, allowSelfPublish: before.allowSelfPublish, defaultUnitSystem: before.defaultUnitSystem, serviceIntervals: before.serviceIntervals },
+        after: { name: after.name, allowSelfPublish: after.allowSelfPublish, defaultUnitSystem: after.defaultUnitSystem, serviceIntervals: after.serviceIntervals },
       });
     });
-    res.json({ settings: await read(req.user!.organisationId) });
+    res.json({ settings: await readOrgSettings(deps.db, req.user!.organisationId) });
   });
   return r;
 }

@@ -2,10 +2,9 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
 
-export interface OrgSettings {
-  name: string;
-  allowSelfPublish: boolean;
-}
+import type { OrgSettings, SettingsPatch } from '@/shared/schemas/settings';
+
+export type { OrgSettings };
 export interface AdminTag {
   group: 'actuation' | 'component' | 'fluid';
   slug: string;
@@ -22,8 +21,11 @@ export function useSettings() {
 export function useSaveSettings() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (patch: Partial<OrgSettings>) => api<{ settings: OrgSettings }>('/api/admin/settings', { method: 'PATCH', body: patch }).then((r) => r.settings),
-    onSuccess: (s) => qc.setQueryData(settingsKeys.settings, s),
+    mutationFn: (patch: SettingsPatch) => api<{ settings: OrgSettings }>('/api/admin/settings', { method: 'PATCH', body: patch }).then((r) => r.settings),
+    onSuccess: (s) => {
+      qc.setQueryData(settingsKeys.settings, s);
+      qc.invalidateQueries({ queryKey: ['insights'] });
+    },
   });
 }
 

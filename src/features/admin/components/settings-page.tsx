@@ -7,6 +7,8 @@ import { Button } from '@/components/ui/button';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
 import { TextField } from '@/components/ui/field';
 import { Card, PageHeader } from '@/components/ui/page';
+import { COMMON_PRACTICE_INTERVALS, type OrgSettings, type ServiceIntervals } from '@/shared/schemas/settings';
+import { ApiError } from '@/lib/api-client';
 import { useAdminCauses, useAdminTags, useSaveCauses, useSaveSettings, useSaveTags, useSettings, type AdminCause, type AdminTag } from '../api/settings';
 
 function CauseEditor() {
@@ -110,6 +112,92 @@ function TagEditor() {
   );
 }
 
+const INTERVAL_FIELDS: { key: keyof ServiceIntervals; label: string; hint: string }[] = [
+  { key: 'seatCycles', label: 'Seat', hint: 'common practice about 100 million cycles' },
+  { key: 'needleCycles', label: 'Needle', hint: 'common practice about 500 million cycles' },
+  { key: 'sealsCycles', label: 'Seals (air-operated valves)', hint: 'common practice about half the seat interval' },
+];
+
+function UnitsCard({ settings }: { settings: OrgSettings }) {
+  const save = useSaveSettings();
+  return (
+    <Card>
+      <h2 className="text-lg font-semibold">Units</h2>
+      <p className="mt-1 text-ink-soft">The unit system for people who have not chosen their own on their account page. Everyone can still enter a value in either system.</p>
+      <fieldset className="mt-3">
+        <legend className="sr-only">Default unit system</legend>
+        <div className="flex flex-wrap gap-4">
+          {(['metric', 'imperial'] as const).map((u) => (
+            <label key={u} className="flex min-h-11 items-center gap-2">
+              <input
+                type="radio"
+                name="default-unit-system"
+                className="size-5"
+                checked={settings.defaultUnitSystem === u}
+                onChange={() => save.mutate({ defaultUnitSystem: u }, { onSuccess: () => showToast('Default unit system saved', 'ok') })}
+              />
+              {u === 'metric' ? 'Metric (bar, mm, °C)' : 'US customary (psi, in, °F)'}
+            </label>
+          ))}
+        </div>
+      </fieldset>
+    </Card>
+  );
+}
+
+function IntervalsCard({ settings }: { settings: OrgSettings }) {
+  const save = useSaveSettings();
+  const [draft, setDraft] = useState<Record<keyof ServiceIntervals, string>>(() => ({
+    seatCycles: String(settings.serviceIntervals.seatCycles),
+    needleCycles: String(settings.serviceIntervals.needleCycles),
+    sealsCycles: String(settings.serviceIntervals.sealsCycles),
+  }));
+  const [errors, setErrors] = useState<Partial<Record<string, string>>>({});
+  const reset = (s: ServiceIntervals) => setDraft({ seatCycles: String(s.seatCycles), needleCycles: String(s.needleCycles), sealsCycles: String(s.sealsCycles) });
+  const onError = (err: unknown) => {
+    if (err instanceof ApiError && Object.keys(err.fields).length > 0) {
+      setErrors(Object.fromEntries(Object.entries(err.fields).map(([k, v]) => [k.replace(/^serviceIntervals\./, ''), v])));
+    } else showToast('Intervals could not be saved', 'error');
+  };
+  return (
+    <Card>
+      <h2 className="text-lg font-semibold">Default service intervals</h2>
+      <p className="mt-1 text-ink-soft">
+        Used for forecasts and for the reliability comparison where an applicator has no interval of its own. {settings.serviceIntervalsAreDefault ? 'These are the common-practice values; check them against the valve maker’s manual for your valves and fluids.' : 'Your organisation has set its own values.'}
+      </p>
+      <form
+        className="mt-3 grid gap-3 sm:grid-cols-3"
+        onSubmit={(e) => {
+          e.preventDefault();
+          setErrors({});
+          const parsed = Object.fromEntries(Object.entries(draft).map(([k, v]) => [k, Number(v.replace(/[\s,_]/g, ''))])) as unknown as ServiceIntervals;
+          save.mutate({ serviceIntervals: parsed }, { onSuccess: (s) => { reset(s.serviceIntervals); showToast('Intervals saved', 'ok'); }, onError });
+        }}
+      >
+        {INTERVAL_FIELDS.map((f) => (
+          <TextField
+            key={f.key}
+            label={`${f.label} (cycles)`}
+            hint={f.hint}
+            inputMode="numeric"
+            value={draft[f.key]}
+            error={errors[f.key]}
+            onChange={(e) => setDraft({ ...draft, [f.key]: e.target.value })}
+          />
+        ))}
+        <div className="flex flex-wrap gap-2 sm:col-span-3">
+          <Button type="submit" busy={save.isPending}>Save intervals</Button>
+          {!settings.serviceIntervalsAreDefault && (
+            <Button type="button" variant="secondary" onClick={() => save.mutate({ serviceIntervals: null }, { onSuccess: (s) => { reset(s.serviceIntervals); showToast('Common-practice intervals restored', 'ok'); } })}>
+              Use common practice ({COMMON_PRACTICE_INTERVALS.seatCycles / 1e6} M / {COMMON_PRACTICE_INTERVALS.needleCycles / 1e6} M / {COMMON_PRACTICE_INTERVALS.sealsCycles / 1e6} M)
+            </Button>
+          )}
+        </div>
+      </form>
+    </Card>
+  );
+}
+
 export function SettingsPage() {
   const settings = useSettings();
   const save = useSaveSettings();
@@ -138,6 +226,8 @@ export function SettingsPage() {
             </label>
           </Card>
         )}
+        {settings.data && <UnitsCard settings={settings.data} />}
+        {settings.data && <IntervalsCard key={JSON.stringify(settings.data.serviceIntervals)} settings={settings.data} />}
         <TagEditor />
         <CauseEditor />
       </div>
