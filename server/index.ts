@@ -31,6 +31,7 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env) {
     logger.warn('PUBLIC_ORIGIN is not set: links in e-mails use the host each request names; set it to the address people use');
   }
   const app = createApp({ db, config, logger, version, clientDir, mail });
+  logger.info({ storage: app.locals.storage.kind, location: app.locals.storage.location }, 'uploads are stored here');
   if (config.NODE_ENV === 'development') {
     // Vite serves the client with hot reload in development; imported only here.
     const { createServer: createVite } = await import('vite');

@@ -13,7 +13,8 @@ import { validateGuide } from '../../src/shared/guides/validate';
 import type { TipTapNode } from '../../src/shared/rich-text/extensions';
 import { DEFAULT_CAUSES } from '../../src/shared/tags';
 import { prepareRichText, renderDoc } from '../../server/lib/rich-text';
-import { localStorage, type FileStorage } from '../../server/lib/storage';
+import { loadStorageConfig } from '../../server/config/env';
+import { storageFor, type FileStorage } from '../../server/lib/storage';
 import { PHOTO_VARIANTS } from '../../server/modules/files/files.service';
 import { KEPT_ARTICLE_TITLE, SAMPLE_GUIDE_KEY, articleDoc, checkContent, readContent, type ContentSet, type DrawingSource } from './content';
 
@@ -24,7 +25,7 @@ export const DEFAULT_FILES_DIR = fileURLToPath(new URL('../../.data/files', impo
 
 export interface LoadOptions {
   organisationId: number;
-  /** Storage for the drawings; defaults to FILES_DIR or .data/files like the server. */
+  /** Storage for the drawings; defaults to the server's (S3 when configured, else FILES_DIR or .data/files). */
   storage?: FileStorage;
   /** "Now" for back-dating publication; injectable so a history generator can line up with it. */
   now?: Date;
@@ -142,7 +143,7 @@ export async function loadDemoContent(db: Knex, opts: LoadOptions, set: ContentS
   const log = opts.log ?? (() => {});
   const report = checkContent(set);
   if (report.errors.length) throw new Error(`Demo content has ${report.errors.length} problems; run npm run content:check:\n${report.errors.slice(0, 10).join('\n')}`);
-  const storage = opts.storage ?? localStorage(process.env.FILES_DIR ?? DEFAULT_FILES_DIR);
+  const storage = opts.storage ?? storageFor(loadStorageConfig(process.env), DEFAULT_FILES_DIR);
   const now = opts.now ?? new Date();
   const ago = (days: number) => new Date(now.getTime() - days * DAY_MS);
   const orgId = opts.organisationId;

@@ -1,11 +1,13 @@
 // One-file backups: a pg_dump taken in the same snapshot as per-table counts and checksums, the
-// upload folder, and a manifest with SHA-256 of every part; restore checks all of it on the way back.
+// uploaded files (read through the storage module, so from the folder or the S3 bucket alike), and
+// a manifest with SHA-256 of every part; restore checks all of it on the way back.
 import { execFileSync, spawn } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { cpSync, createReadStream, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { createReadStream, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join, relative, resolve, sep } from 'node:path';
+import { dirname, join, resolve, sep } from 'node:path';
 import pg from 'pg';
+import { localStorage, type FileStorage } from '../../server/lib/storage';
 
 export const MANIFEST_FORMAT = 'beadpath-backup';
 
@@ -39,20 +41,6 @@ export async function sha256File(path: string): Promise<string> {
   return hash.digest('hex');
 }
 
-function listFiles(root: string): string[] {
-  if (!existsSync(root)) return [];
-  const out: string[] = [];
-  const walk = (d: string) => {
-    for (const e of readdirSync(d, { withFileTypes: true })) {
-      const p = join(d, e.name);
-      if (e.isDirectory()) walk(p);
-      else if (e.isFile()) out.push(relative(root, p).split(sep).join('/'));
-    }
-  };
-  walk(root);
-  return out.sort();
-}
-
 /** Row count and a checksum of every row's text, per table of the public schema, in the client's current snapshot. */
 export async function tableDigests(client: pg.Client | pg.PoolClient): Promise<Record<string, TableDigest>> {
   const { rows: tables } = await client.query(`select tablename from pg_tables where schemaname = 'public' order by tablename`);
@@ -74,7 +62,12 @@ function run(cmd: string, args: string[]): Promise<void> {
   });
 }
 
-export async function backup(opts: { databaseUrl: string; filesDir: string; out: string }): Promise<Manifest> {
+/** Where the uploads are: a FileStorage (folder or S3), or a folder path. */
+type FilesSource = { storage: FileStorage } | { filesDir: string };
+const storageOf = (o: FilesSource) => ('storage' in o ? o.storage : localStorage(o.filesDir));
+
+export async function backup(opts: FilesSource & { databaseUrl: string; out: string }): Promise<Manifest> {
+  const storage = storageOf(opts);
   const work = mkdtempSync(join(tmpdir(), 'beadpath-backup-'));
   const client = new pg.Client({ connectionString: opts.databaseUrl });
   await client.connect();
@@ -91,10 +84,13 @@ export async function backup(opts: { databaseUrl: string; filesDir: string; out:
 
     // Stored files never change once written, so copying them after the snapshot misses nothing it refers to.
     const files: Record<string, string> = {};
-    for (const rel of listFiles(opts.filesDir)) {
-      const target = join(work, 'files', rel);
+    for (const rel of await storage.list()) {
+      const target = resolve(work, 'files', rel);
+      if (!target.startsWith(resolve(work, 'files') + sep)) throw new Error(`The storage holds a key that is not a plain path: ${rel}`);
+      const data = await storage.get(rel);
+      if (!data) continue; // deleted since it was listed
       mkdirSync(dirname(target), { recursive: true });
-      cpSync(join(opts.filesDir, rel), target);
+      writeFileSync(target, data);
       files[rel] = await sha256File(target);
     }
     const manifest: Manifest = {
@@ -116,7 +112,8 @@ export async function backup(opts: { databaseUrl: string; filesDir: string; out:
   }
 }
 
-export async function restore(opts: { file: string; databaseUrl: string; filesDir: string }): Promise<Manifest> {
+export async function restore(opts: FilesSource & { file: string; databaseUrl: string }): Promise<Manifest> {
+  const storage = storageOf(opts);
   const sumFile = `${opts.file}.sha256`;
   if (existsSync(sumFile)) {
     const expected = readFileSync(sumFile, 'utf8').split(/\s+/)[0];
@@ -140,14 +137,16 @@ export async function restore(opts: { file: string; databaseUrl: string; filesDi
     const { rows } = await client.query(`select count(*)::int as n from pg_tables where schemaname not in ('pg_catalog', 'information_schema')`);
     // Restoring over live data would mix two states; only an empty database is a safe target.
     if (rows[0].n > 0) throw new Error('The target database is not empty. Create an empty database and restore into that.');
-    if (listFiles(opts.filesDir).length > 0) throw new Error(`The files folder ${opts.filesDir} is not empty. Point FILES_DIR at an empty folder.`);
+    if ((await storage.list()).length > 0) {
+      throw new Error(
+        storage.kind === 's3'
+          ? `The upload bucket ${storage.location} is not empty. Point S3_BUCKET (or S3_PREFIX) at an empty one.`
+          : `The files folder ${storage.location} is not empty. Point FILES_DIR at an empty folder.`,
+      );
+    }
 
     await run(pgTool('pg_restore'), ['--no-owner', '--no-privileges', '--exit-on-error', '--single-transaction', `--dbname=${opts.databaseUrl}`, dumpFile]);
-    for (const rel of Object.keys(manifest.files)) {
-      const target = join(opts.filesDir, rel);
-      mkdirSync(dirname(target), { recursive: true });
-      cpSync(join(work, 'files', rel), target);
-    }
+    for (const rel of Object.keys(manifest.files)) await storage.put(rel, readFileSync(join(work, 'files', rel)));
 
     const restored = await tableDigests(client);
     const differ = Object.keys({ ...manifest.tables, ...restored }).filter(

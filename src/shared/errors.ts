@@ -11,6 +11,7 @@ export const ERROR_CODES = {
   rate_limited: 429,
   internal: 500,
   unavailable: 503,
+  insufficient_storage: 507,
 } as const;
 
 export type ErrorCode = keyof typeof ERROR_CODES;

@@ -16,6 +16,7 @@ import { createTestDatabase } from './database';
 import { createDb } from '../../server/db/knex';
 import { startTcpProxy, type TcpProxy } from './tcp-proxy';
 import type { MailService } from '../../server/modules/mail/mail.service';
+import type { FileStorage } from '../../server/lib/storage';
 import type { CapturedMail } from '../../server/modules/mail/fake-smtp';
 
 export const TEST_PASSWORD = 'correct horse battery staple';
@@ -41,7 +42,7 @@ export interface TestApp {
 
 let passwordHash: Promise<string> | null = null;
 
-export async function startTestApp(env: Record<string, string> = {}, opts: { viaProxy?: boolean } = {}): Promise<TestApp> {
+export async function startTestApp(env: Record<string, string> = {}, opts: { viaProxy?: boolean; storage?: FileStorage } = {}): Promise<TestApp> {
   const created = await createTestDatabase();
   const { drop } = created;
   let { db, url: dbUrl } = created;
@@ -70,7 +71,7 @@ export async function startTestApp(env: Record<string, string> = {}, opts: { via
     RESET_RATE_LIMIT: '1000',
     ...env,
   });
-  const app = createApp({ db, config, logger: createLogger('silent'), clientDir: null, version: 'test' });
+  const app = createApp({ db, config, logger: createLogger('silent'), clientDir: null, version: 'test', storage: opts.storage });
   const server = createServer(app);
   await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;

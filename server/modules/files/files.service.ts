@@ -5,7 +5,7 @@ import { fileTypeFromBuffer } from 'file-type';
 import type { Knex } from 'knex';
 import sharp from 'sharp';
 import { AppError } from '../../lib/app-error';
-import type { FileStorage } from '../../lib/storage';
+import { storageFailure, type FileStorage } from '../../lib/storage';
 
 export const ACCEPTED = 'JPEG, PNG or WebP photos and PDF documents';
 const PHOTO_TYPES = new Set(['image/jpeg', 'image/png', 'image/webp']);
@@ -61,7 +61,19 @@ function cleanName(name: string): string {
   return n.trim() || 'file';
 }
 
-export function createFilesService(db: Knex, storage: FileStorage) {
+/** A refused write as the API says it: 507 when the disk is full, 503 otherwise; either way nothing was saved. */
+function storeRefused(err: unknown, storage: FileStorage): AppError {
+  const why = storageFailure(err);
+  const where = storage.kind === 's3' ? 'object storage' : 'file storage';
+  const error =
+    why === 'no_space'
+      ? new AppError('insufficient_storage', `The file could not be stored: the ${where} is full. Nothing was saved; ask an administrator to free space, then upload again.`, { file: 'Not stored: storage full' })
+      : new AppError('unavailable', `The file could not be stored: the ${where} refused the write or is not reachable. Nothing was saved; try again in a moment.`, { file: 'Not stored: storage unavailable' });
+  (error as { cause?: unknown }).cause = err;
+  return error;
+}
+
+export function createFilesService(db: Knex, storage: FileStorage, log?: { warn: (obj: object, msg: string) => void }) {
   return {
     async store(organisationId: number, userId: number, upload: { buffer: Buffer; originalname: string }): Promise<StoredFile> {
       const detected = await fileTypeFromBuffer(upload.buffer);
@@ -76,8 +88,14 @@ export function createFilesService(db: Knex, storage: FileStorage) {
       const written: string[] = [];
       const put = async (variant: string, data: Buffer, mime: string, ext: string) => {
         const key = `${organisationId}/${id}/${variant}.${ext}`;
-        await storage.put(key, data);
+        // Counted before the write: a failed write may still have left part of the bytes.
         written.push(key);
+        try {
+          await storage.put(key, data);
+        } catch (err) {
+          log?.warn({ err, storage: storage.kind, key }, 'file storage write failed');
+          throw storeRefused(err, storage);
+        }
         return [variant, { key, mime }] as const;
       };
       try {
@@ -124,7 +142,13 @@ export function createFilesService(db: Knex, storage: FileStorage) {
       const row = (await db('files').where({ id, organisation_id: organisationId }).first()) as FileRow | undefined;
       const v = row?.variants[variant];
       if (!row || !v) throw AppError.notFound('This file');
-      const data = await storage.get(v.key);
+      let data: Buffer | null;
+      try {
+        data = await storage.get(v.key);
+      } catch (err) {
+        log?.warn({ err, storage: storage.kind }, 'file storage read failed');
+        throw new AppError('unavailable', 'The file storage is not reachable right now, so this file cannot be shown. Try again in a moment.');
+      }
       if (!data) throw AppError.notFound('This file');
       return { data, mime: v.mime, name: row.original_name, kind: row.kind };
     },
