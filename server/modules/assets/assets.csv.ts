@@ -4,6 +4,7 @@
 import Papa from 'papaparse';
 import { ASSET_LIMITS, dateProblem, type CsvColumn, type ImportProblem } from '../../../src/shared/schemas/assets';
 import { AppError } from '../../lib/app-error';
+import { neutraliseFormula, restoreFormulaText } from '../../../src/shared/csv-safe';
 
 /** Headers match ignoring case, spaces, punctuation and unit symbols' styling. */
 export function headerKey(header: string): string {
@@ -35,16 +36,10 @@ function fileError(message: string, field = 'file'): AppError {
   return new AppError('invalid_input', message, { [field]: message }, { problems: [{ row: null, column: null, message }] satisfies ImportProblem[] });
 }
 
-// Spreadsheets run text starting with these as a formula; exports prefix an apostrophe.
-const FORMULA_START = /^[=+\-@\t\r]/;
-
-export function unescapeCell(cell: string): string {
-  return cell.startsWith("'") && FORMULA_START.test(cell.slice(1)) ? cell.slice(1) : cell;
-}
-
-export function escapeText(value: string): string {
-  return FORMULA_START.test(value) ? `'${value}` : value;
-}
+// Spreadsheets run text starting with = + - @ tab or CR as a formula; exports prefix an
+// apostrophe (the shared helper) and imports take it off again.
+export const unescapeCell = restoreFormulaText;
+export const escapeText = neutraliseFormula;
 
 /**
  * The separator the header row uses most, outside quotes. The header names the columns, so it is
@@ -215,5 +210,6 @@ export type CsvValue = string | number | boolean | null | undefined;
 /** One CSV file as sent to spreadsheets: a byte-order mark so accents and units open right. */
 export function toCsv(headers: string[], rows: CsvValue[][]): string {
   const cell = (v: CsvValue) => (v === null || v === undefined ? '' : typeof v === 'boolean' ? (v ? 'yes' : 'no') : typeof v === 'number' ? String(v) : escapeText(v));
-  return '\uFEFF' + Papa.unparse({ fields: headers, data: rows.map((r) => r.map(cell)) }, { newline: '\r\n' }) + '\r\n';
+  // Headers too: an organisation's own field names become column headers.
+  return '\uFEFF' + Papa.unparse({ fields: headers.map(escapeText), data: rows.map((r) => r.map(cell)) }, { newline: '\r\n' }) + '\r\n';
 }

@@ -1,12 +1,6 @@
 // The service forecast as a spreadsheet: one line per coming service, then the parts to order.
+import { csvCell as cell } from '../../../src/shared/csv-safe';
 import type { ForecastAnswer } from '../../../src/shared/schemas/insights';
-
-function cell(v: string | number | null): string {
-  const s = v === null ? '' : String(v);
-  // A leading = + - @ would run as a formula in a spreadsheet; a quote mark keeps it text.
-  const safe = /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
-  return /[",\n\r]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
-}
 
 export function forecastCsv(a: ForecastAnswer): string {
   const lines = [['tag', 'site', 'line', 'part', 'due_on', 'days_remaining', 'status', 'cycles_since', 'interval_cycles', 'parts'].join(',')];

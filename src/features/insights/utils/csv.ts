@@ -1,17 +1,9 @@
 // Tables as CSV files built in the browser, so every chart's figures can go into a spreadsheet.
+import { toCsv, type CsvCell } from '@/shared/csv-safe';
 
-export type Cell = string | number | null | undefined;
-
-function cell(v: Cell): string {
-  const s = v === null || v === undefined ? '' : String(v);
-  // A leading = + - @ would run as a formula when the file is opened; a quote mark keeps it text.
-  const safe = /^[=+\-@\t\r]/.test(s) && !/^-?\d/.test(s) ? `'${s}` : s;
-  return /[",\n\r]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
-}
-
-export function toCsv(header: string[], rows: Cell[][]): string {
-  return [header, ...rows].map((r) => r.map(cell).join(',')).join('\r\n') + '\r\n';
-}
+// Cells go through the shared helper, so text that starts like a formula opens as text.
+export type Cell = CsvCell;
+export { toCsv };
 
 export function downloadCsv(name: string, header: string[], rows: Cell[][]) {
   const url = URL.createObjectURL(new Blob([toCsv(header, rows)], { type: 'text/csv;charset=utf-8' }));
