@@ -233,7 +233,9 @@ async function freePort(): Promise<number> {
 
 async function startApp(dbUrl: string): Promise<{ child: ChildProcess; base: string }> {
   const port = await freePort();
-  const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], {
+  // BENCH_NODE_FLAGS passes extra Node flags to the server, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof".
+  const flags = (process.env.BENCH_NODE_FLAGS ?? '').split(/\s+/).filter(Boolean);
+  const child = spawn(process.execPath, [...flags, '--import', 'tsx', join(root, 'server/index.ts')], {
     cwd: root,
     env: { ...process.env, DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', NODE_ENV: 'production', MEILI_URL: '', MEILI_API_KEY: '' },
     stdio: ['ignore', 'inherit', 'inherit'],
@@ -347,6 +349,23 @@ function pgbench(cluster: { port: number; password: string }, dbName: string, cl
 
 const fmt = (n: number, d = 1) => n.toFixed(d).padStart(8);
 
+const TICK_MS = 1000 / Number(spawnSync('getconf', ['CLK_TCK'], { encoding: 'utf8' }).stdout.trim() || 100);
+
+/** User + system CPU of one process, in ms (Linux /proc). */
+function cpuOf(pid: number): number {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+    return (Number(fields[11]) + Number(fields[12])) * TICK_MS;
+  } catch {
+    return 0;
+  }
+}
+
+async function cpuSnapshot(db: Db, dbName: string, appPid: number) {
+  const backends = await db.raw('select pid from pg_stat_activity where datname = ? and pid <> pg_backend_pid()', [dbName]);
+  return { app: cpuOf(appPid), pg: new Map<number, number>(backends.rows.map((r: { pid: number }) => [r.pid, cpuOf(r.pid)])) };
+}
+
 async function main() {
   const cluster = await ensureCluster({ name: 'pg-test', durable: false, log: () => {} });
   const dbName = `bench_search_${randomBytes(4).toString('hex')}`;
@@ -380,7 +399,9 @@ async function main() {
     );
     console.log(`examples: ${mix.slice(0, 6).map((m) => `"${m.q}"`).join(', ')}`);
 
-    const started = await startApp(dbUrl);
+    // Like `npm start`, the app reaches PostgreSQL through the cluster's Unix socket; BENCH_PG_TCP=1 uses loopback TCP.
+    const appDbUrl = process.env.BENCH_PG_TCP === '1' ? dbUrl : cluster.localUrlFor(dbName);
+    const started = await startApp(appDbUrl);
     app = started.child;
     const cookie = await signIn(started.base);
     const queries = mix.map((m) => m.q);
@@ -389,7 +410,11 @@ async function main() {
     pgbench(cluster, dbName, 4, 'warm-up');
 
     const results: Figures[] = [];
+    // CPU time per request (app process + this database's PostgreSQL backends): a figure that holds
+    // still while other work shares the machine, unlike latencies.
+    const cpu0 = await cpuSnapshot(db, dbName, app.pid!);
     results.push(await loadApp(started.base, cookie, queries, 16, '/api/search (app, HTTP + session)'));
+    const cpu1 = await cpuSnapshot(db, dbName, app.pid!);
     results.push(pgbench(cluster, dbName, 16, 'textbook query (pgbench)'));
     results.push(await loadApp(started.base, cookie, queries, 4, '/api/search (app, HTTP + session)'));
     results.push(pgbench(cluster, dbName, 4, 'textbook query (pgbench)'));
@@ -402,6 +427,9 @@ async function main() {
       [`app p95 at 16 clients < 100 ms (${app16.p95.toFixed(1)} ms)`, app16.p95 < 100],
       [`app p95 at 4 clients < 50 ms (${app4.p95.toFixed(1)} ms)`, app4.p95 < 50],
     ] as const;
+    const appMs = (cpu1.app - cpu0.app) / queries.length;
+    const pgMs = [...cpu1.pg].reduce((sum, [pid, t]) => sum + t - (cpu0.pg.get(pid) ?? 0), 0) / queries.length;
+    console.log(`\nCPU per search at 16 clients: app ${appMs.toFixed(2)} ms, PostgreSQL ${pgMs.toFixed(2)} ms, together ${(appMs + pgMs).toFixed(2)} ms (2 cores: ceiling about ${(2000 / (appMs + pgMs)).toFixed(0)} q/s)`);
     console.log('');
     for (const [what, ok] of checks) console.log(`${ok ? 'met    ' : 'MISSED '} ${what}`);
   } finally {

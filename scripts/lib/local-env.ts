@@ -20,5 +20,5 @@ export async function localDatabaseUrl(database = 'beadpath'): Promise<string> {
   if (process.env.DATABASE_URL) return process.env.DATABASE_URL;
   const cluster = await ensureCluster({ name: 'pg', durable: true });
   ensureDatabase(cluster, database);
-  return cluster.urlFor(database);
+  return cluster.localUrlFor(database);
 }

@@ -17,8 +17,9 @@ import { AppError } from '../../lib/app-error';
 import { ApiRouter } from '../../lib/routes';
 import { validate } from '../../lib/validate';
 import type { AuthService } from './auth.service';
+import type { SessionUsers } from './session-store';
 
-export function configurePassport(auth: AuthService) {
+export function configurePassport(auth: AuthService, sessionUsers?: SessionUsers) {
   const p = new passport.Passport();
   p.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
@@ -27,7 +28,11 @@ export function configurePassport(auth: AuthService) {
   );
   p.serializeUser((user, done) => done(null, (user as SessionUser).id));
   // Read on every request, so a deactivated user or a changed role takes effect at once.
-  p.deserializeUser((id: number, done) => {
+  // The session store usually read the user in the same statement as the session (session-store.ts).
+  p.deserializeUser((req: Request, id: number, done: (err: unknown, user?: SessionUser | false) => void) => {
+    if (!Number.isSafeInteger(Number(id))) return done(null, false);
+    const read = sessionUsers?.takeUser(req, Number(id));
+    if (read !== undefined) return done(null, read ?? false);
     auth.loadSessionUser(Number(id)).then((u) => done(null, u ?? false), done);
   });
   return p;

@@ -3,9 +3,8 @@
 // vocabulary when the first finds little. Always available; the fallback for Meilisearch.
 import type { Knex } from 'knex';
 import type { SearchHit, SearchKind } from '../../../src/shared/schemas/search';
-import { searchRepository as repo, type PgHitRow, type SearchFilters } from './search.repository';
+import { searchRepository as repo, type PgHitRow, type SearchFilters, type SynonymPairs } from './search.repository';
 import { buildSynonymMap, checkableWords, markedHtml, synonymPairs } from './search.text';
-import type { SynonymPairs } from './search.repository';
 
 /** Fewer results than this and the typo-tolerant pass runs. */
 const FEW = 3;
