@@ -1,6 +1,8 @@
 // `npm run bench:insights`: seeds 1,000,000 walks and 200,000 service events over 2,000 applicators
-// in its own database of the test cluster, then times each insights query through the service the
-// routes use. Prints the figures and drops the database. Not part of `npm test`.
+// in its own database of the test cluster, times a full refresh of the summary tables, then each
+// insights query through the service the routes use (checking each answer against the exact one
+// read from the raw history), then an incremental refresh after a day's new walks and services.
+// Prints the figures and drops the database. Not part of `npm test`.
 import { randomBytes } from 'node:crypto';
 import { register } from 'tsx/esm/api';
 import { createDb, migrateLatest, type Db } from '../server/db/knex';
@@ -19,6 +21,14 @@ const GUIDES = 60;
 const CAUSES = 30;
 const RUNS = 5;
 const TARGET_MS = 300;
+
+const days = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10);
+/** The answer without its freshness stamp and with keys in one order (stored answers come back from jsonb). */
+function canonical(v: unknown): unknown {
+  if (Array.isArray(v)) return v.map(canonical);
+  if (v && typeof v === 'object') return Object.fromEntries(Object.keys(v).filter((k) => k !== 'asOf').sort().map((k) => [k, canonical((v as Record<string, unknown>)[k])]));
+  return v;
+}
 
 async function seed(db: Db): Promise<number> {
   const [org] = await db('organisations').insert({ name: 'Bench works' }).returning('id');
@@ -104,20 +114,33 @@ async function main() {
     console.log(`${c.walks} walks, ${c.services} service events, ${c.applicators} applicators, ${c.readings} counter readings`);
     const s = createInsightsService({ db });
     const user = { id: 1, organisationId, roles: ['manager'] } as unknown as SessionUser;
+    let t = performance.now();
+    const full = await s.refresh(organisationId, { full: true });
+    console.log(`full refresh of the summary tables: ${((performance.now() - t) / 1000).toFixed(1)} s (steps in ms: ${JSON.stringify(full.steps)})`);
+    await db.raw('analyze');
     const site = await db('sites').where({ organisation_id: organisationId }).first('id');
-    const cases: [string, () => Promise<unknown>][] = [
-      ['causes: a year, all, repeats within 90 d, by month', () => s.causes(user, CausesQuery.parse({}))],
-      ['causes: a year, one site, electric, by week', () => s.causes(user, CausesQuery.parse({ siteId: site.id, actuation: 'electric', bucket: 'week' }))],
-      ['causes: two years, one guide', () => s.causes(user, CausesQuery.parse({ guideId: 1, from: '2024-01-01' }))],
-      ['forecast: next 90 days, all sites', () => s.forecast(user, ForecastQuery.parse({}))],
-      ['guides: a year, every version', () => s.guides(user, GuidesQuery.parse({}))],
-      ['reliability: seat', () => s.reliability(user, ReliabilityQuery.parse({ part: 'seat' }))],
-      ['reliability: seals (air-operated)', () => s.reliability(user, ReliabilityQuery.parse({ part: 'seals' }))],
+    const cases: [string, () => Promise<unknown>, () => Promise<unknown>][] = [
+      ['causes: a year, all, repeats within 90 d, by month', () => s.causes(user, CausesQuery.parse({})), () => s.exact.causes(organisationId, CausesQuery.parse({}))],
+      ['causes: 6 months, all, repeats within 30 d, by week', () => s.causes(user, CausesQuery.parse({ from: days(-182), repeatDays: 30, bucket: 'week' })), () => s.exact.causes(organisationId, CausesQuery.parse({ from: days(-182), repeatDays: 30, bucket: 'week' }))],
+      ['causes: a year, one site, electric, by week', () => s.causes(user, CausesQuery.parse({ siteId: site.id, actuation: 'electric', bucket: 'week' })), () => s.exact.causes(organisationId, CausesQuery.parse({ siteId: site.id, actuation: 'electric', bucket: 'week' }))],
+      ['causes: two years, one guide', () => s.causes(user, CausesQuery.parse({ guideId: 1, from: days(-730) })), () => s.exact.causes(organisationId, CausesQuery.parse({ guideId: 1, from: days(-730) }))],
+      ['forecast: next 90 days, all sites', () => s.forecast(user, ForecastQuery.parse({})), () => s.exact.forecast(organisationId, ForecastQuery.parse({}))],
+      ['forecast: next 30 days, one site', () => s.forecast(user, ForecastQuery.parse({ days: 30, siteId: site.id })), () => s.exact.forecast(organisationId, ForecastQuery.parse({ days: 30, siteId: site.id }))],
+      ['guides: a year, every version', () => s.guides(user, GuidesQuery.parse({})), () => s.exact.guides(organisationId, GuidesQuery.parse({}))],
+      ['reliability: seat', () => s.reliability(user, ReliabilityQuery.parse({ part: 'seat' })), () => s.exact.reliability(organisationId, ReliabilityQuery.parse({ part: 'seat' }))],
+      ['reliability: seals (air-operated)', () => s.reliability(user, ReliabilityQuery.parse({ part: 'seals' })), () => s.exact.reliability(organisationId, ReliabilityQuery.parse({ part: 'seals' }))],
+      ['reliability: needle, electric', () => s.reliability(user, ReliabilityQuery.parse({ part: 'needle', actuation: 'electric' })), () => s.exact.reliability(organisationId, ReliabilityQuery.parse({ part: 'needle', actuation: 'electric' }))],
     ];
-    console.log(`\n${'query'.padEnd(52)}  median ms    max ms  (${RUNS} runs after one warm-up)`);
+    console.log(`\n${'query'.padEnd(52)}  median ms    max ms  exact ms  same answer (${RUNS} runs after one warm-up)`);
     const missed: string[] = [];
-    for (const [label, run] of cases) {
-      await run();
+    const different: string[] = [];
+    for (const [label, run, exact] of cases) {
+      const first = await run();
+      t = performance.now();
+      const reference = await exact();
+      const exactMs = performance.now() - t;
+      const same = JSON.stringify(canonical(first)) === JSON.stringify(canonical(reference));
+      if (!same) different.push(label);
       const times: number[] = [];
       for (let i = 0; i < RUNS; i++) {
         const t = performance.now();
@@ -127,9 +150,35 @@ async function main() {
       times.sort((a, b) => a - b);
       const median = times[Math.floor(RUNS / 2)];
       if (median >= TARGET_MS) missed.push(label);
-      console.log(`${label.padEnd(52)}${median.toFixed(1).padStart(11)}${times[RUNS - 1].toFixed(1).padStart(10)}`);
+      console.log(`${label.padEnd(52)}${median.toFixed(1).padStart(11)}${times[RUNS - 1].toFixed(1).padStart(10)}${exactMs.toFixed(0).padStart(10)}  ${same ? 'yes' : 'NO'}`);
     }
     console.log(missed.length ? `\nMISSED the ${TARGET_MS} ms target: ${missed.join('; ')}` : `\nmet: every query's median under ${TARGET_MS} ms`);
+    console.log(different.length ? `DIFFERENT from the exact answer: ${different.join('; ')}` : 'every answer equals the exact one read from the raw history');
+
+    // A day's new work, then the refreshes the queue would run: 1,500 walks ending today (causes and
+    // guides only), then 300 services (which also recompute the stored forecast and reliability).
+    await db.raw(
+      `insert into walks (organisation_id, guide_id, guide_version_id, user_id, applicator_id, status, end_kind, outcome, cause_code, started_at, ended_at)
+       select w.organisation_id, w.guide_id, w.guide_version_id, w.user_id, w.applicator_id, 'ended', 'finding', 'fixed', w.cause_code, now() - interval '20 minutes', now()
+         from walks w where w.organisation_id = ? and w.end_kind = 'finding' limit 1500`,
+      [organisationId],
+    );
+    t = performance.now();
+    const walksOnly = await s.refresh(organisationId);
+    console.log(`\nincremental refresh after 1,500 walks: ${(performance.now() - t).toFixed(0)} ms (${walksOnly.days} days, ${walksOnly.applicators} applicators; steps in ms: ${JSON.stringify(walksOnly.steps)})`);
+    await db.raw(
+      `insert into service_events (organisation_id, applicator_id, performed_on, actions, cause_code, parts)
+       select organisation_id, applicator_id, current_date, actions, cause_code, parts from service_events where organisation_id = ? limit 300`,
+      [organisationId],
+    );
+    t = performance.now();
+    const inc = await s.refresh(organisationId);
+    console.log(
+      `incremental refresh after 300 services: ${(performance.now() - t).toFixed(0)} ms (${inc.days} days, ${inc.applicators} applicators${inc.snapshots ? ', forecast and reliability recomputed' : ''}; steps in ms: ${JSON.stringify(inc.steps)})`,
+    );
+    const after = await s.causes(user, CausesQuery.parse({}));
+    const afterExact = await s.exact.causes(organisationId, CausesQuery.parse({}));
+    console.log(`causes after the incremental refresh equal the exact answer: ${JSON.stringify(canonical(after)) === JSON.stringify(canonical(afterExact)) ? 'yes' : 'NO'}`);
   } finally {
     await db.destroy();
     if (process.env.BENCH_KEEP === '1' || reuse) console.log(`\nDatabase ${dbName} kept (BENCH_KEEP=1); drop it when done.`);

@@ -174,9 +174,22 @@ export interface ServicePoint {
   readingId: number | null;
 }
 
+/** The organisation's default intervals (from its settings) for applicators without their own. */
+export interface DefaultIntervals {
+  intervals: Record<WearPart, number>;
+  /** False while the organisation keeps the common-practice figures. */
+  own: boolean;
+}
+
+/** Organisation settings as the forecasts take them. */
+export function defaultIntervalsFrom(s: { serviceIntervals: { seatCycles: number; needleCycles: number; sealsCycles: number }; serviceIntervalsAreDefault: boolean }): DefaultIntervals {
+  return { intervals: { seat: s.serviceIntervals.seatCycles, needle: s.serviceIntervals.needleCycles, seals: s.serviceIntervals.sealsCycles }, own: !s.serviceIntervalsAreDefault };
+}
+
 /**
  * The seat, needle and (on air-operated valves) seal forecasts: cycles since the part was last
- * renewed, against the organisation's interval or the calculator's common-practice default.
+ * renewed, against the applicator's own interval, else the organisation's default, else the
+ * calculator's common-practice default.
  */
 export function forecasts(opts: {
   model: CounterModel;
@@ -185,19 +198,23 @@ export function forecasts(opts: {
   intervals: Record<WearPart, number | null>;
   expected: ExpectedRate;
   today: string;
+  defaults?: DefaultIntervals;
 }): ForecastView[] {
   // Electric valves have no sliding seals on the plunger, so there is no seal service to plan.
   const parts: WearPart[] = opts.actuation === 'air-operated' ? ['seat', 'needle', 'seals'] : ['seat', 'needle'];
   const now = opts.model.summary.estimatedLifetime;
   const lifetimeOfReading = new Map(opts.model.points.map((p) => [p.id, p.lifetime]));
   return parts.map((part): ForecastView => {
-    const own = opts.intervals[part];
+    const applicatorOwn = opts.intervals[part];
+    const orgOwn = opts.defaults?.own ? opts.defaults.intervals[part] : null;
+    // The figure given to the calculator; null leaves it on its common-practice rule of thumb.
+    const own = applicatorOwn ?? orgOwn;
     const threshold = own ?? DEFAULT_THRESHOLDS[part];
     const renewed = opts.events
       .filter((e) => e.actions.includes(WEAR_PART_ACTION[part]))
       .sort((a, b) => (a.performedOn < b.performedOn ? 1 : a.performedOn > b.performedOn ? -1 : b.id - a.id))[0];
     const start = renewed ? ((renewed.readingId !== null ? lifetimeOfReading.get(renewed.readingId) : undefined) ?? opts.model.lifetimeAt(renewed.performedOn)) : 0;
-    const base = { part, since: renewed?.performedOn ?? null, threshold, thresholdSource: own !== null ? ('applicator' as const) : ('common-practice' as const) };
+    const base = { part, since: renewed?.performedOn ?? null, threshold, thresholdSource: applicatorOwn !== null ? ('applicator' as const) : orgOwn !== null ? ('organisation' as const) : ('common-practice' as const) };
     if (now === null || start === null) {
       return { ...base, cyclesSince: null, cyclesPerDay: opts.model.cyclesPerDay, daysRemaining: null, dueOn: null, status: 'no-forecast', warnings: ['There is no counter reading (or expected rate) to count cycles from yet.'] };
     }

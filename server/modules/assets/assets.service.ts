@@ -23,7 +23,8 @@ import {
 import { AppError } from '../../lib/app-error';
 import type { FilesService } from '../files/files.service';
 import { headerKey } from './assets.csv';
-import { counterModel, forecasts, readingProblem, removalProblem } from './assets.counters';
+import { counterModel, defaultIntervalsFrom, forecasts, readingProblem, removalProblem } from './assets.counters';
+import { readOrgSettings } from '../admin/settings.routes';
 import { assetsRepository as repo, type ApplicatorColumns, type ServiceEventRecord } from './assets.repository';
 
 function isUniqueViolation(err: unknown): boolean {
@@ -193,6 +194,7 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
         intervals: { seat: a.seatIntervalCycles, needle: a.needleIntervalCycles, seals: a.sealsIntervalCycles },
         expected,
         today,
+        defaults: defaultIntervalsFrom(await readOrgSettings(trx, user.organisationId)),
       }),
     };
   }

@@ -1,7 +1,8 @@
 // The insights queries: aggregated in PostgreSQL so a year of a large organisation's walks and
 // service events comes back as a few hundred rows, never as raw history.
 import type { Knex } from 'knex';
-import type { CausesQuery, GuidesQuery, ReliabilityPart } from '../../../src/shared/schemas/insights';
+import type { CausesQuery, GuidesQuery } from '../../../src/shared/schemas/insights';
+import { MINUTES_TO_FINDING } from './insights.summaries';
 
 export interface Period {
   from: string;
@@ -22,8 +23,9 @@ function causeEvents(db: Knex, organisationId: number, q: CausesQuery, p: Period
     .where('w.organisation_id', organisationId)
     .where('w.end_kind', 'finding')
     .whereNotNull('w.cause_code')
-    .where('w.ended_at', '>=', p.from)
-    .whereRaw(`w.ended_at < ?::date + 1`, [p.to]);
+    // Days are UTC days, as the summary tables count them, whatever the session's time zone.
+    .whereRaw(`w.ended_at >= ?::date::timestamp at time zone 'UTC'`, [p.from])
+    .whereRaw(`w.ended_at < (?::date + 1)::timestamp at time zone 'UTC'`, [p.to]);
   if (q.guideId) walks.where('w.guide_id', q.guideId);
   if (anyAssetFilter) walks.join('applicators as a', 'a.id', 'w.applicator_id').modify(assetFilter);
 
@@ -76,7 +78,7 @@ export const insightsRepository = {
         db.raw('count(*) over () as total'),
       )
       .whereRaw('x.on_day - x.prev <= ?', [q.repeatDays])
-      .orderBy([{ column: 'x.on_day', order: 'desc' }, { column: 'x.applicator_id', order: 'asc' }, { column: 'x.code', order: 'asc' }])
+      .orderBy([{ column: 'x.on_day', order: 'desc' }, { column: 'x.applicator_id', order: 'asc' }, { column: 'x.code', order: 'asc' }, { column: 'x.prev', order: 'asc' }])
       .limit(limit);
     return { total: rows.length ? Number(rows[0].total) : 0, rows };
   },
@@ -101,6 +103,7 @@ export const insightsRepository = {
         'a.seat_interval_cycles',
         'a.needle_interval_cycles',
         'a.seals_interval_cycles',
+        'a.site_id',
         's.name as site',
         'l.name as line',
       )
@@ -120,6 +123,7 @@ export const insightsRepository = {
         seat_interval_cycles: string | null;
         needle_interval_cycles: string | null;
         seals_interval_cycles: string | null;
+        site_id: number;
         site: string;
         line: string;
       }[]
@@ -161,19 +165,23 @@ export const insightsRepository = {
     return rows;
   },
 
-  async replacements(db: Knex, organisationId: number, action: string, filter: { actuation?: string; fluidFamily?: string; part: ReliabilityPart }) {
-    const apps = db('applicators as a').select('a.id', 'a.tag', 'a.status').where('a.organisation_id', organisationId);
+  /**
+   * Applicators with their seat, needle, seal and coil replacements, in id order so a fit over a
+   * subset filtered here or in the caller sums the same numbers in the same order.
+   */
+  async replacementData(db: Knex, organisationId: number, filter: { actuation?: string; fluidFamily?: string }) {
+    const apps = db('applicators as a').select('a.id', 'a.tag', 'a.status', 'a.actuation').where('a.organisation_id', organisationId).orderBy('a.id');
     if (filter.actuation) apps.where('a.actuation', filter.actuation);
     if (filter.fluidFamily) apps.whereRaw('lower(a.fluid_family) = lower(?)', [filter.fluidFamily]);
-    // Electric valves have no sliding seals to wear.
-    if (filter.part === 'seals') apps.where('a.actuation', 'air-operated');
-    const applicators: { id: number; tag: string; status: string }[] = await apps;
-    const events: { id: number; applicator_id: number; performed_on: string; reading_id: number | null; cause_code: string | null }[] = await db('service_events as e')
-      .join('applicators as a', 'a.id', 'e.applicator_id')
-      .select('e.id', 'e.applicator_id', db.raw(`to_char(e.performed_on, 'YYYY-MM-DD') as performed_on`), 'e.reading_id', 'e.cause_code')
+    const applicators: { id: number; tag: string; status: string; actuation: string }[] = await apps;
+    const events: { id: number; applicator_id: number; performed_on: string; reading_id: number | null; cause_code: string | null; actions: string[] }[] = await db('service_events as e')
+      .select('e.id', 'e.applicator_id', db.raw(`to_char(e.performed_on, 'YYYY-MM-DD') as performed_on`), 'e.reading_id', 'e.cause_code', 'e.actions')
       .where('e.organisation_id', organisationId)
-      .whereRaw('? = any(e.actions)', [action])
-      .whereIn('e.applicator_id', applicators.map((a) => a.id));
+      .whereRaw(`e.actions && array['seat-replaced','needle-replaced','seals-replaced','coil-replaced']::text[]`)
+      .modify((b) => {
+        if (filter.actuation || filter.fluidFamily) b.whereIn('e.applicator_id', applicators.map((a) => a.id));
+      })
+      .orderBy('e.id');
     return { applicators, events };
   },
 
@@ -192,27 +200,31 @@ export const insightsRepository = {
         db.raw(`count(*) filter (where w.outcome = 'fixed-by-other') as fixed_by_other`),
         db.raw(`count(*) filter (where w.status = 'abandoned' or w.end_kind = 'abandoned') as abandoned`),
         db.raw(`count(*) filter (where w.status = 'open') as open`),
-        db.raw(`percentile_cont(0.5) within group (order by extract(epoch from (w.ended_at - w.started_at)) / 60) filter (where w.end_kind = 'finding' and w.ended_at is not null) as median_minutes`),
+        db.raw(`percentile_cont(0.5) within group (order by ${MINUTES_TO_FINDING}) filter (where w.end_kind = 'finding' and w.ended_at is not null) as median_minutes`),
       )
       .where('w.organisation_id', organisationId)
-      .where('w.started_at', '>=', p.from)
-      .whereRaw(`w.started_at < ?::date + 1`, [p.to])
+      .whereRaw(`w.started_at >= ?::date::timestamp at time zone 'UTC'`, [p.from])
+      .whereRaw(`w.started_at < (?::date + 1)::timestamp at time zone 'UTC'`, [p.to])
       .groupBy('w.guide_id', 'w.guide_version_id', 'v.number', 'v.title')
       .orderBy([{ column: 'started', order: 'desc' }, { column: 'w.guide_version_id', order: 'asc' }]);
     const abandonedSteps: { guide_version_id: number; step_id: string; n: string }[] = await db('walks as w')
       .select('w.guide_version_id', db.raw('coalesce(w.ended_at_step_id, w.current_step_id) as step_id'), db.raw('count(*) as n'))
       .where('w.organisation_id', organisationId)
       .where((b) => b.where('w.status', 'abandoned').orWhere('w.end_kind', 'abandoned'))
-      .where('w.started_at', '>=', p.from)
-      .whereRaw(`w.started_at < ?::date + 1`, [p.to])
+      .whereRaw(`w.started_at >= ?::date::timestamp at time zone 'UTC'`, [p.from])
+      .whereRaw(`w.started_at < (?::date + 1)::timestamp at time zone 'UTC'`, [p.to])
       .whereRaw('coalesce(w.ended_at_step_id, w.current_step_id) is not null')
       .groupBy('w.guide_version_id', db.raw('coalesce(w.ended_at_step_id, w.current_step_id)'));
+    return { rows, abandonedSteps };
+  },
+
+  async openFlags(db: Knex, organisationId: number) {
     const flags: { guide_version_id: number; n: string }[] = await db('step_flags')
       .select('guide_version_id', db.raw('count(*) as n'))
       .where('organisation_id', organisationId)
       .whereNull('resolved_at')
       .groupBy('guide_version_id');
-    return { rows, abandonedSteps, flags };
+    return flags;
   },
 
   /** Step titles of the versions named, from their content. */

@@ -534,7 +534,8 @@ export interface ForecastView {
   since: string | null;
   cyclesSince: number | null;
   threshold: number;
-  thresholdSource: 'applicator' | 'common-practice';
+  /** Whose interval: the applicator's own, the organisation's default, or common practice. */
+  thresholdSource: 'applicator' | 'organisation' | 'common-practice';
   cyclesPerDay: number | null;
   daysRemaining: number | null;
   dueOn: string | null;

@@ -220,13 +220,14 @@ export const MAIL_STATUS_LABELS: Record<MailStatus, string> = {
   sent: 'Sent',
   failed: 'Failed',
 };
-export const MAIL_KINDS = ['invitation', 'password-reset', 'case-handoff', 'case-summary'] as const;
+export const MAIL_KINDS = ['invitation', 'password-reset', 'case-handoff', 'case-summary', 'insights-digest'] as const;
 export type MailKind = (typeof MAIL_KINDS)[number];
 export const MAIL_KIND_LABELS: Record<MailKind, string> = {
   invitation: 'Invitation',
   'password-reset': 'Password reset',
   'case-handoff': 'Hand-off notice',
   'case-summary': 'Case summary',
+  'insights-digest': 'Weekly digest',
 };
 
 export const OutboxListQuery = z.object({

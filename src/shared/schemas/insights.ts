@@ -64,9 +64,41 @@ export const GuidesQuery = z.object({
 });
 export type GuidesQuery = z.output<typeof GuidesQuery>;
 
+export const DigestPreferenceInput = z.object({
+  enabled: z.boolean({ error: 'Enabled must be true or false' }),
+});
+export type DigestPreferenceInput = z.output<typeof DigestPreferenceInput>;
+
 // ---- Answers ---------------------------------------------------------------------------------
 
-export interface CausesAnswer {
+/**
+ * Where the figures come from: the summary tables as of their last refresh, or the raw history
+ * read just now (filtered questions, or before the first refresh).
+ */
+export interface Freshness {
+  /** ISO time of the refresh the figures come from; null when computed from the history just now. */
+  asOf: string | null;
+}
+
+export interface InsightsStatus {
+  /** Last refresh of the organisation's summaries; null before the first. */
+  refreshedAt: string | null;
+  fullAt: string | null;
+  tookMs: number | null;
+  /** A refresh asked for and not yet run. */
+  requestedAt: string | null;
+  /** Changes recorded since the last refresh, waiting for the next one. */
+  changesWaiting: boolean;
+}
+
+export interface DigestPreference {
+  enabled: boolean;
+  /** Only managers receive the weekly digest. */
+  eligible: boolean;
+  lastSentAt: string | null;
+}
+
+export interface CausesAnswer extends Freshness {
   from: string;
   to: string;
   total: number;
@@ -88,6 +120,7 @@ export interface CausesAnswer {
 export interface ForecastRow {
   applicatorId: number;
   tag: string;
+  siteId: number;
   site: string;
   line: string;
   part: 'seat' | 'needle' | 'seals';
@@ -100,7 +133,7 @@ export interface ForecastRow {
   partsKnown: boolean;
 }
 
-export interface ForecastAnswer {
+export interface ForecastAnswer extends Freshness {
   today: string;
   days: number;
   rows: ForecastRow[];
@@ -108,7 +141,9 @@ export interface ForecastAnswer {
   /** Services in the window whose parts are not known from earlier services of that kind. */
   partsUnknown: number;
   /** Applicators whose dates cannot be forecast, with the reason. */
-  noForecast: { applicatorId: number; tag: string; reason: string }[];
+  noForecast: { applicatorId: number; tag: string; siteId: number; reason: string }[];
+  /** Where intervals come from for applicators without their own. */
+  defaultIntervals: { seat: number; needle: number; seals: number; source: 'organisation' | 'common-practice' };
 }
 
 export interface GuideEffectiveness {
@@ -128,16 +163,18 @@ export interface GuideEffectiveness {
   openFlags: number;
 }
 
-export interface GuidesAnswer {
+export interface GuidesAnswer extends Freshness {
   from: string;
   to: string;
   versions: GuideEffectiveness[];
 }
 
-export interface ReliabilityAnswer {
+export interface ReliabilityAnswer extends Freshness {
   part: ReliabilityPart;
   unit: 'cycles';
+  /** The first MAX_LISTED intervals; `intervalCount` says how many were used. */
   intervals: (Interval & { applicatorId: number; tag: string })[];
+  intervalCount: number;
   failures: number;
   suspensions: number;
   skipped: string[];
@@ -154,9 +191,11 @@ export interface ReliabilityAnswer {
     shape: number;
     scale: number;
     rSquared: number;
+    /** Evenly thinned to at most a thousand for drawing; `pointsTotal` failures were ranked. */
     points: { cycles: number; medianRank: number; x: number; y: number }[];
+    pointsTotal: number;
   } | null;
   /** The interval the organisation plans by, and where it sits on the fitted curve. */
-  planned: { cycles: number; source: string; unreliabilityAtPlanned: number | null } | null;
+  planned: { cycles: number; source: string; sourceKind: 'organisation' | 'common-practice'; unreliabilityAtPlanned: number | null } | null;
   cannotFit: string | null;
 }

@@ -1,7 +1,8 @@
 // Insights endpoints: one key factory and a hook per question, plus the site, line and guide lists
 // the filters offer.
-import { keepPreviousData, useQuery } from '@tanstack/react-query';
-import type { CausesAnswer, ForecastAnswer, GuidesAnswer, ReliabilityAnswer } from '@/shared/schemas/insights';
+import { useEffect, useRef } from 'react';
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { CausesAnswer, DigestPreference, ForecastAnswer, GuidesAnswer, InsightsStatus, ReliabilityAnswer } from '@/shared/schemas/insights';
 import { api } from '@/lib/api-client';
 
 export type Params = Record<string, string | undefined>;
@@ -15,7 +16,54 @@ export const insightKeys = {
   guides: (p: Params) => [...insightKeys.all, 'guides', p] as const,
   reliability: (p: Params) => [...insightKeys.all, 'reliability', p] as const,
   choices: () => [...insightKeys.all, 'choices'] as const,
+  status: () => ['insights-status'] as const,
+  digest: () => ['insights-digest'] as const,
 };
+
+/**
+ * How fresh the summaries are. Polled while a refresh is asked for or changes wait, and when the
+ * refresh time moves every insight is fetched again.
+ */
+export function useInsightsStatus() {
+  const qc = useQueryClient();
+  const q = useQuery({
+    queryKey: insightKeys.status(),
+    queryFn: () => api<InsightsStatus>('/api/insights/status'),
+    refetchInterval: (query) => (query.state.data?.requestedAt || query.state.data?.changesWaiting ? 3000 : 60_000),
+  });
+  const seen = useRef<string | null | undefined>(undefined);
+  const refreshedAt = q.data?.refreshedAt;
+  useEffect(() => {
+    if (refreshedAt === undefined) return;
+    if (seen.current !== undefined && seen.current !== refreshedAt) void qc.invalidateQueries({ queryKey: insightKeys.all });
+    seen.current = refreshedAt;
+  }, [refreshedAt, qc]);
+  return q;
+}
+
+export function useRefreshInsights() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<InsightsStatus>('/api/insights/refresh', { method: 'POST' }),
+    onSuccess: (status) => qc.setQueryData(insightKeys.status(), status),
+  });
+}
+
+export function useDigestPreference() {
+  return useQuery({ queryKey: insightKeys.digest(), queryFn: () => api<DigestPreference>('/api/insights/digest') });
+}
+
+export function useSetDigest() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (enabled: boolean) => api<DigestPreference>('/api/insights/digest', { method: 'PUT', body: { enabled } }),
+    onSuccess: (pref) => qc.setQueryData(insightKeys.digest(), pref),
+  });
+}
+
+export function useDigestPreview() {
+  return useMutation({ mutationFn: () => api<{ to: string }>('/api/insights/digest/preview', { method: 'POST' }) });
+}
 
 export function useCauses(p: Params) {
   return useQuery({ queryKey: insightKeys.causes(p), queryFn: () => api<CausesAnswer>(`/api/insights/causes?${qs(p)}`), placeholderData: keepPreviousData });

@@ -11,6 +11,7 @@ import { useCauses, useFilterChoices } from '../api/insights';
 import { Button } from '@/components/ui/button';
 import { downloadCsv, num } from '../utils/csv';
 import { DataFigure, DataTable } from './figure';
+import { Freshness } from './freshness';
 
 const SERIES = [palette.amber.DEFAULT, palette.fixed.DEFAULT, palette.danger.DEFAULT, palette.ink.soft, palette.amber.line];
 // Past a dozen bars the labels no longer fit; the long tail stays in the table and the file.
@@ -71,6 +72,7 @@ export function CausesPage() {
 
       {causes.isError ? <Notice tone="error" title="The causes could not be loaded">{errorMessage(causes.error)}</Notice> : null}
       {causes.isPending ? <LoadingBlock label="Loading causes" /> : null}
+      {d ? <Freshness asOf={d.asOf} /> : null}
       {d && d.empty ? <EmptyState title="No causes to rank">{d.empty}</EmptyState> : null}
       {d && !d.empty ? (
         <>

@@ -46,7 +46,8 @@ export function DataFigure(props: {
 
 export function DataTable({ header, rows, caption }: { header: string[]; rows: Cell[][]; caption: string }) {
   return (
-    <div className="overflow-x-auto">
+    // Focusable so a keyboard can scroll a table wider than a phone.
+    <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
       <table className="w-full text-left text-sm">
         <caption className="sr-only">{caption}</caption>
         <thead>

@@ -1,13 +1,67 @@
 // The service forecast: which valves reach their seat, needle or seal interval in the next 30, 60
-// or 90 days, by the same counters and rates as each applicator's page, and the parts to order.
+// or 90 days, by the same counters and rates as each applicator's page, as a table and a calendar,
+// the parts to order, and the weekly digest's switch. Prints on A4 or US Letter.
 import { Link, useSearchParams } from 'react-router';
 import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
 import { SelectField } from '@/components/ui/field';
-import { buttonClass } from '@/components/ui/button';
+import { Button, buttonClass } from '@/components/ui/button';
 import { errorMessage } from '@/lib/api-client';
-import { useFilterChoices, useForecast, forecastCsvHref } from '../api/insights';
+import { formatDate, formatDateTime } from '@/lib/format';
+import { showToast } from '@/lib/toasts';
+import { useDigestPreference, useDigestPreview, useFilterChoices, useForecast, forecastCsvHref, useSetDigest } from '../api/insights';
 import { downloadCsv, millions, num } from '../utils/csv';
 import { DataTable } from './figure';
+import { ForecastCalendar } from './forecast-calendar';
+import { Freshness, PrintedAsOf } from './freshness';
+
+// Paper: whatever size the printer has (A4 or US Letter, both fit the narrower A4 width), the
+// app's navigation and the page's controls left out, table rows never split, the calendar on a page
+// of its own.
+const PRINT_CSS = `@media print {
+  @page { size: auto; margin: 12mm; }
+  html { font-size: 10pt; }
+  .forecast-print { color: black; }
+  .forecast-print section { border: none !important; padding: 0 !important; background: none !important; }
+  .forecast-print .overflow-x-auto { overflow: visible !important; }
+  .forecast-print table { width: 100%; border-collapse: collapse; }
+  .forecast-print thead { display: table-header-group; }
+  .forecast-print tr, .forecast-print li { break-inside: avoid; page-break-inside: avoid; }
+  .forecast-print h2 { break-after: avoid; page-break-after: avoid; }
+  .forecast-print [data-print="calendar"] { break-before: page; page-break-before: always; break-after: page; page-break-after: always; }
+  .forecast-print [data-print="calendar"] td { height: auto; min-height: 0; }
+  .forecast-print a { color: inherit; text-decoration: none; }
+}`;
+
+function DigestPanel() {
+  const pref = useDigestPreference();
+  const set = useSetDigest();
+  const preview = useDigestPreview();
+  const p = pref.data;
+  return (
+    <section id="digest" className="no-print rounded-lg border border-rule bg-paper-raised p-4 sm:p-5" aria-labelledby="digest-title">
+      <h2 id="digest-title" className="font-serif text-lg font-semibold">Weekly e-mail digest</h2>
+      <p className="text-sm text-ink-soft">
+        Every Monday at 06:00 UTC, managers get the services due in the coming 7 and 30 days and the repeat failures of the last 30 days, with links here.
+        {p?.lastSentAt ? ` Last sent ${formatDateTime(p.lastSentAt)}.` : ''}
+      </p>
+      {p ? (
+        <div className="mt-2 flex flex-wrap items-center gap-3">
+          {p.eligible ? (
+            <label className="flex min-h-11 items-center gap-2 font-semibold">
+              <input type="checkbox" className="size-5 accent-amber-deep" checked={p.enabled} disabled={set.isPending} onChange={(e) => set.mutate(e.target.checked, { onSuccess: (r) => showToast(r.enabled ? 'You will get the weekly digest.' : 'You will no longer get the weekly digest.', 'ok') })} />
+              Send me the weekly digest
+            </label>
+          ) : (
+            <p className="text-sm">The weekly digest goes to managers; you can still send yourself a copy.</p>
+          )}
+          <Button variant="secondary" busy={preview.isPending} onClick={() => preview.mutate(undefined, { onSuccess: (r) => showToast(`A preview is on its way to ${r.to}.`, 'ok') })}>
+            Send me a preview now
+          </Button>
+        </div>
+      ) : null}
+    </section>
+  );
+}
 
 const PART_LABELS = { seat: 'Seat', needle: 'Needle', seals: 'Seals' } as const;
 
@@ -23,18 +77,12 @@ export function ForecastPage() {
     setParams(next, { replace: true });
   };
   const d = forecast.data;
-  // Weeks ahead as a simple calendar: how many services fall in each, so the work can be spread.
-  const weeks = d
-    ? Array.from({ length: Math.ceil(d.days / 7) }, (_, i) => {
-        const start = new Date(Date.parse(`${d.today}T00:00:00Z`) + i * 7 * 86_400_000).toISOString().slice(0, 10);
-        const end = new Date(Date.parse(`${d.today}T00:00:00Z`) + (i * 7 + 6) * 86_400_000).toISOString().slice(0, 10);
-        return { start, end, rows: d.rows.filter((r) => r.dueOn >= start && r.dueOn <= end) };
-      })
-    : [];
+  const site = choices.data?.sites.find((s) => String(s.id) === p.siteId)?.name;
 
   return (
-    <div className="space-y-5">
-      <div className="flex flex-wrap items-end gap-3">
+    <div className="forecast-print space-y-5">
+      <style>{PRINT_CSS}</style>
+      <div className="no-print flex flex-wrap items-end gap-3">
         <SelectField label="Due within" value={p.days} onChange={(e) => set('days', e.target.value)}>
           <option value="30">30 days</option>
           <option value="60">60 days</option>
@@ -47,20 +95,42 @@ export function ForecastPage() {
         <a className={buttonClass('secondary')} href={forecastCsvHref(p)} download>
           Download CSV
         </a>
+        <Button variant="secondary" onClick={() => window.print()}>
+          Print
+        </Button>
       </div>
       {forecast.isError ? <Notice tone="error" title="The forecast could not be loaded">{errorMessage(forecast.error)}</Notice> : null}
       {forecast.isPending ? <LoadingBlock label="Loading the forecast" /> : null}
       {d ? (
         <>
+          <Freshness asOf={d.asOf} />
+          <PrintedAsOf asOf={d.asOf} />
           <section className="rounded-lg border border-rule bg-paper-raised p-4 sm:p-5" data-testid="forecast-table">
-            <h2 className="font-serif text-lg font-semibold">Services due in the next {d.days} days</h2>
+            <h2 className="font-serif text-lg font-semibold">Services due in the next {d.days} days{site ? `, ${site}` : ''}</h2>
             <p className="mb-2 text-sm text-ink-soft">
-              From each running applicator’s counter readings (or its expected rate when readings are stale) against its own interval or the common-practice default. Overdue parts show as due today.
+              From each running applicator’s counter readings (or its expected rate when readings are stale) against its own interval, else{' '}
+              {d.defaultIntervals.source === 'organisation' ? 'your organisation’s default' : 'the common-practice default'} (seat {millions(d.defaultIntervals.seat)}, needle {millions(d.defaultIntervals.needle)}, seals {millions(d.defaultIntervals.seals)} cycles). Overdue parts show as due today, {formatDate(d.today)}.
             </p>
             {d.rows.length === 0 ? (
               <p>No seat, needle or seal service falls due in the next {d.days} days.</p>
             ) : (
-              <div className="overflow-x-auto">
+              <>
+              {/* Phones: one card per service; the table is for wider screens and paper. */}
+              <ul className="divide-y divide-rule sm:hidden print:hidden" aria-label={`Services due in the next ${d.days} days`}>
+                {d.rows.map((r) => (
+                  <li key={`${r.applicatorId}-${r.part}`} className="py-3">
+                    <p className="flex flex-wrap items-baseline justify-between gap-2">
+                      <span>
+                        <Link className="font-semibold text-amber-deep underline" to={`/applicators/${r.applicatorId}`}>{r.tag}</Link> · {PART_LABELS[r.part]}
+                      </span>
+                      <span className="tabular-nums">{r.status === 'overdue' ? <span className="font-semibold text-danger">Overdue</span> : `${formatDate(r.dueOn)} (${r.daysRemaining} d)`}</span>
+                    </p>
+                    <p className="text-sm text-ink-soft">{r.site} / {r.line} · {millions(r.cyclesSince)} of {millions(r.threshold)} cycles</p>
+                    <p className="text-sm">{r.partsKnown ? r.parts.map((x) => `${x.quantity} × ${x.name}${x.partNumber ? ` (${x.partNumber})` : ''}`).join('; ') : <span className="text-ink-soft">Parts: none known</span>}</p>
+                  </li>
+                ))}
+              </ul>
+              <div className="hidden overflow-x-auto sm:block print:block" tabIndex={0} role="region" aria-label={`Services due in the next ${d.days} days, table`}>
                 <table className="w-full text-left text-sm">
                   <caption className="sr-only">Services due in the next {d.days} days</caption>
                   <thead>
@@ -76,7 +146,7 @@ export function ForecastPage() {
                         <td className="px-2 py-2"><Link className="font-semibold text-amber-deep underline" to={`/applicators/${r.applicatorId}`}>{r.tag}</Link></td>
                         <td className="px-2 py-2">{r.site} / {r.line}</td>
                         <td className="px-2 py-2">{PART_LABELS[r.part]}</td>
-                        <td className="px-2 py-2 tabular-nums">{r.status === 'overdue' ? <span className="font-semibold text-danger">Overdue</span> : `${r.dueOn} (${r.daysRemaining} d)`}</td>
+                        <td className="px-2 py-2 tabular-nums">{r.status === 'overdue' ? <span className="font-semibold text-danger">Overdue</span> : `${formatDate(r.dueOn)} (${r.daysRemaining} d)`}</td>
                         <td className="px-2 py-2 tabular-nums">{millions(r.cyclesSince)} / {millions(r.threshold)}</td>
                         <td className="px-2 py-2">{r.partsKnown ? r.parts.map((x) => `${x.quantity} × ${x.name}${x.partNumber ? ` (${x.partNumber})` : ''}`).join('; ') : <span className="text-ink-soft">None known: no earlier service of this kind on it listed parts</span>}</td>
                       </tr>
@@ -84,22 +154,11 @@ export function ForecastPage() {
                   </tbody>
                 </table>
               </div>
+              </>
             )}
           </section>
 
-          {d.rows.length ? (
-            <section className="rounded-lg border border-rule bg-paper-raised p-4 sm:p-5">
-              <h2 className="font-serif text-lg font-semibold">Calendar by week</h2>
-              <ol className="mt-2 grid gap-2 sm:grid-cols-2 lg:grid-cols-4">
-                {weeks.map((w) => (
-                  <li key={w.start} className={`rounded border p-2 text-sm ${w.rows.length ? 'border-amber-line bg-amber-wash' : 'border-rule'}`}>
-                    <p className="font-semibold">{w.start} – {w.end}</p>
-                    <p>{w.rows.length ? w.rows.map((r) => `${r.tag} ${PART_LABELS[r.part].toLowerCase()}`).join(', ') : 'Nothing due'}</p>
-                  </li>
-                ))}
-              </ol>
-            </section>
-          ) : null}
+          <ForecastCalendar rows={d.rows} today={d.today} days={d.days} />
 
           <section className="rounded-lg border border-rule bg-paper-raised p-4 sm:p-5">
             <div className="flex flex-wrap items-center justify-between gap-2">
@@ -124,7 +183,7 @@ export function ForecastPage() {
           </section>
 
           {d.noForecast.length ? (
-            <details className="rounded-lg border border-rule bg-paper-raised p-4">
+            <details className="no-print rounded-lg border border-rule bg-paper-raised p-4">
               <summary className="cursor-pointer font-semibold">{d.noForecast.length} running {d.noForecast.length === 1 ? 'applicator' : 'applicators'} cannot be forecast</summary>
               <ul className="mt-2 list-disc pl-5 text-sm">
                 {d.noForecast.slice(0, 100).map((n) => (
@@ -136,6 +195,7 @@ export function ForecastPage() {
           {d.rows.length === 0 && d.noForecast.length === 0 ? <EmptyState title="Nothing to forecast">There are no running applicators{p.siteId ? ' on this site' : ''}.</EmptyState> : null}
         </>
       ) : null}
+      <DigestPanel />
     </div>
   );
 }

@@ -9,6 +9,7 @@ import { palette } from '../../../../tailwind.config';
 import { useGuideEffectiveness } from '../api/insights';
 import { num } from '../utils/csv';
 import { DataFigure } from './figure';
+import { Freshness } from './freshness';
 
 const pct = (n: number, of: number) => (of ? `${num((100 * n) / of)} %` : '—');
 
@@ -32,6 +33,7 @@ export function GuidesPage() {
       </div>
       {q.isError ? <Notice tone="error" title="Guide effectiveness could not be loaded">{errorMessage(q.error)}</Notice> : null}
       {q.isPending ? <LoadingBlock label="Loading guide effectiveness" /> : null}
+      {d ? <Freshness asOf={d.asOf} /> : null}
       {d && d.versions.length === 0 ? <EmptyState title="No walks in this period">No guide was walked between {d.from} and {d.to}, so there is nothing to measure.</EmptyState> : null}
       {d && d.versions.length ? (
         <>

@@ -12,6 +12,7 @@ import { palette } from '../../../../tailwind.config';
 import { useReliability } from '../api/insights';
 import { millions, num } from '../utils/csv';
 import { DataFigure, DataTable } from './figure';
+import { Freshness } from './freshness';
 
 export function ReliabilityPage() {
   const [params, setParams] = useSearchParams();
@@ -55,6 +56,7 @@ export function ReliabilityPage() {
       {q.isPending ? <LoadingBlock label="Loading reliability" /> : null}
       {d ? (
         <>
+          <Freshness asOf={d.asOf} />
           <p className="text-ink-soft">
             {partLabel}: {d.failures} failures and {d.suspensions} suspensions (planned changes and parts still running) from counter readings. A replacement with a cause recorded counts as a failure.
           </p>
@@ -72,19 +74,19 @@ export function ReliabilityPage() {
               {d.fit.warnings.filter((w) => d.failures >= 5 || !/Only \d+ failures/.test(w)).map((w) => <p key={w} className="mt-2 text-sm">{w}</p>)}
               {d.planned ? (
                 <p className="mt-3">
-                  Planned interval: {millions(d.planned.cycles)} cycles ({d.planned.source}).{' '}
+                  Planned interval: {millions(d.planned.cycles)} cycles ({d.planned.sourceKind === 'organisation' ? 'your organisation’s default' : 'common practice'}{d.planned.sourceKind === 'organisation' ? '' : `: ${d.planned.source.replace(/^common practice \(|\)$/g, '')}`}).{' '}
                   {d.planned.unreliabilityAtPlanned !== null
                     ? `By the fit, ${num(100 * d.planned.unreliabilityAtPlanned, 1)} % of parts would have failed by then; B10 is ${d.fit.b10 < d.planned.cycles ? 'shorter' : 'longer'} than the planned interval.`
                     : null}
                 </p>
-              ) : <p className="mt-3">There is no common-practice interval for coils to compare with.</p>}
+              ) : <p className="mt-3">Coils have no planned replacement interval to compare with.</p>}
             </section>
           ) : null}
           {d.plot ? (
             <DataFigure
               title="Weibull probability plot (median-rank regression)"
               label={`Weibull probability plot of ${d.plot.points.length} failures of the ${partLabel.toLowerCase()}, with the median-rank regression line: shape ${num(d.plot.shape, 2)}, scale ${millions(d.plot.scale)} cycles, R² ${num(d.plot.rSquared, 3)}.`}
-              caption={`Points: failures at Benard's median ranks (Johnson-adjusted for suspensions). Line: median-rank regression, β ${num(d.plot.shape, 2)}, η ${millions(d.plot.scale)} cycles, R² ${num(d.plot.rSquared, 3)}. Straight points suggest one failure mode.`}
+              caption={`Points: failures at Benard's median ranks (Johnson-adjusted for suspensions)${d.plot.pointsTotal > d.plot.points.length ? `, ${d.plot.points.length} of ${d.plot.pointsTotal} drawn, evenly spread` : ''}. Line: median-rank regression, β ${num(d.plot.shape, 2)}, η ${millions(d.plot.scale)} cycles, R² ${num(d.plot.rSquared, 3)}. Straight points suggest one failure mode.`}
               header={['Cycles at failure', 'Median rank F', 'ln(cycles)', 'ln(−ln(1−F))']}
               rows={d.plot.points.map((pt) => [Math.round(pt.cycles), num(pt.medianRank, 4), num(pt.x, 4), num(pt.y, 4)])}
               csvName={`weibull-plot-${p.part}.csv`}
@@ -93,7 +95,7 @@ export function ReliabilityPage() {
                   <ComposedChart margin={{ top: 8, right: 12, bottom: 16, left: 0 }}>
                     <CartesianGrid stroke={palette.rule.DEFAULT} strokeDasharray="3 3" />
                     <XAxis dataKey="x" type="number" domain={['dataMin', 'dataMax']} stroke={palette.ink.soft} fontSize={12} tickFormatter={(v: number) => millions(Math.exp(v))} label={{ value: 'cycles (log scale)', position: 'insideBottom', offset: -8, fontSize: 12 }} />
-                    <YAxis dataKey="y" type="number" domain={['auto', 'auto']} stroke={palette.ink.soft} fontSize={12} width={64} tickFormatter={(v: number) => `${num(100 * (1 - Math.exp(-Math.exp(v))), 1)} %`} />
+                    <YAxis dataKey="y" type="number" domain={['auto', 'auto']} stroke={palette.ink.soft} fontSize={12} width={64} tickFormatter={(v: number) => `${Number((100 * (1 - Math.exp(-Math.exp(v)))).toPrecision(2))} %`} />
                     <Tooltip formatter={(v, n) => [num(Number(v), 3), n]} />
                     <Line data={line} dataKey="fit" name="Regression" stroke={palette.ink.DEFAULT} dot={false} isAnimationActive={false} />
                     <Scatter data={d.plot.points} dataKey="y" name="Failures" fill={palette.amber.DEFAULT} isAnimationActive={false} />
@@ -104,7 +106,7 @@ export function ReliabilityPage() {
           ) : null}
           {d.intervals.length ? (
             <details className="rounded-lg border border-rule bg-paper-raised p-4">
-              <summary className="cursor-pointer font-semibold">The {d.intervals.length} intervals used</summary>
+              <summary className="cursor-pointer font-semibold">The {d.intervalCount} intervals used{d.intervalCount > d.intervals.length ? ` (first ${d.intervals.length} listed)` : ''}</summary>
               <DataTable
                 caption="Intervals between replacements"
                 header={['Applicator', 'From', 'To', 'Cycles', 'Counted as']}
