@@ -1,8 +1,11 @@
 // `npm run bench:load`: simulated technicians on loopback (autocannon), each signing in, starting a
 // walk on the sample guide, answering its first step, leaving the walk and searching, over and over.
-// Proves zero failed requests and that every acknowledged answer is in the database; prints p95 per
-// route and throughput against two floors (a signed-in no-op and a signed-in one-query route).
-// Env: BENCH_TECHS (default 50), BENCH_SECONDS (default 20). Uses its own database in the test cluster.
+// Then, in separate phases with the same connections and duration: the two floors (a signed-in
+// no-op and a signed-in one-query route) and answering walk steps alone, so the answer route's
+// throughput can be compared with the floors like for like (target: at least 40 % of one query).
+// Proves zero failed requests and that every acknowledged answer is in the database exactly once.
+// Env: BENCH_TECHS (default 50), BENCH_SECONDS (default 20; each later phase a third of it, at
+// least 5 s). Uses its own database in the test cluster.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes, randomUUID } from 'node:crypto';
 import { createServer } from 'node:net';
@@ -17,6 +20,8 @@ import { dropDatabase, ensureCluster, ensureDatabase } from '../scripts/lib/clus
 register();
 const TECHS = Number(process.env.BENCH_TECHS ?? 50);
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 20);
+/** autocannon's own default: a request without an answer after this long counts as failed. */
+const TIMEOUT_S = 10;
 const PASSWORD = 'bench-password-not-secret';
 const root = resolve(import.meta.dirname, '..');
 
@@ -42,6 +47,8 @@ async function startApp(dbUrl: string) {
     env: { ...process.env, DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', NODE_ENV: 'production', MEILI_URL: '', MEILI_API_KEY: '', LOGIN_RATE_LIMIT: '100000' },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
+  // Should this script die on an error, the app must not outlive it.
+  process.once('exit', () => child.kill());
   const base = `http://127.0.0.1:${port}`;
   for (let i = 0; i < 300; i++) {
     try {
@@ -61,22 +68,78 @@ async function signIn(base: string, email: string): Promise<string> {
   return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
 }
 
-/** A valid answer at the walk's current step: acknowledge its cautions if any, else take its first choice. */
-function firstAnswer(ctx: Ctx): Record<string, unknown> {
-  if (ctx.cautions?.length) return { stepId: ctx.stepId, kind: 'acknowledge', cautionIds: ctx.cautions };
-  const step = SAMPLE_GUIDE.steps.find((x) => x.id === ctx.stepId) as { choices?: { id: string }[] } | undefined;
-  return { stepId: ctx.stepId, kind: 'choice', choiceId: step?.choices?.[0]?.id };
+type Step = (typeof SAMPLE_GUIDE.steps)[number];
+
+/**
+ * A valid answer at the walk's current step: acknowledge its cautions if any, else the first choice,
+ * a reading inside the first band, or "it did not fix it"; null when the step takes no answer here.
+ */
+function answerFor(stepId: string | undefined, cautions: string[] | undefined): Record<string, unknown> | null {
+  if (!stepId) return null;
+  if (cautions?.length) return { stepId, kind: 'acknowledge', cautionIds: cautions };
+  const step = SAMPLE_GUIDE.steps.find((x) => x.id === stepId) as Step | undefined;
+  if (!step) return null;
+  if (step.kind === 'ask') return { stepId, kind: 'choice', choiceId: step.choices[0].id };
+  if (step.kind === 'try') return { stepId, kind: 'try', fixed: false };
+  if (step.kind === 'measure' && !step.calculator) {
+    const band = step.bands[0];
+    const value = band.max !== null ? band.max - (band.maxInclusive ? 0 : 0.01) : band.min !== null ? band.min + 1 : 0;
+    return { stepId, kind: 'reading', value, unit: step.bandUnit };
+  }
+  return null;
 }
 
-type Ctx = { cookie?: string; walkId?: number; stepId?: string; cautions?: string[]; sentAt?: number; label?: string; answerId?: string };
+function firstAnswer(ctx: Ctx): Record<string, unknown> {
+  return answerFor(ctx.stepId, ctx.cautions) ?? { stepId: ctx.stepId, kind: 'choice', choiceId: 'none' };
+}
 
-async function floor(base: string, cookies: string[], path: string) {
-  let i = 0;
+type Ctx = {
+  cookie?: string;
+  walkId?: number;
+  stepId?: string;
+  cautions?: string[];
+  sentAt?: number;
+  label?: string;
+  answerId?: string;
+};
+
+interface PhaseResult {
+  label: string;
+  requests: number;
+  rps: number;
+  p50: number;
+  p95: number;
+  failed: number;
+}
+
+/** One route alone, every technician's connection busy for the phase: throughput, latency, failures. */
+async function phase(base: string, label: string, seconds: number, request: object, onStatus?: (status: number, body: string, ctx: any) => void): Promise<PhaseResult> {
   const times: number[] = [];
-  const inst = autocannon({ url: base, connections: TECHS, duration: Math.max(5, Math.round(SECONDS / 3)), requests: [{ method: 'GET', path, setupRequest: (req: any, ctx: Ctx) => ((ctx.cookie ??= cookies[i++ % cookies.length]), { ...req, headers: { ...req.headers, cookie: ctx.cookie } }) }] } as any);
-  inst.on('response', (_c: unknown, _s: number, _b: number, t: number) => times.push(t));
+  let failed = 0;
+  const inst = autocannon({
+    url: base,
+    connections: TECHS,
+    duration: seconds,
+    timeout: TIMEOUT_S,
+    requests: [
+      {
+        ...request,
+        onResponse: (status: number, body: string, ctx: Ctx) => {
+          times.push(performance.now() - (ctx.sentAt ?? 0));
+          if (status >= 300) {
+            failed++;
+            if (failed < 5) console.error(`${label} -> ${status} ${body.slice(0, 200)}`);
+          }
+          onStatus?.(status, body, ctx);
+        },
+      },
+    ],
+  } as any);
   const r: any = await inst;
-  return { rps: r.requests.average as number, p95: pct(times, 95), failed: r.non2xx + r.errors + r.timeouts };
+  // autocannon counts a timeout among its errors as well; non-2xx answers were counted above.
+  failed += r.errors;
+  if (r.errors) console.error(`${label}: ${r.errors} requests without an answer, ${r.timeouts} of them timed out (no answer in ${TIMEOUT_S} s)`);
+  return { label, requests: times.length, rps: times.length / (r.duration || seconds), p50: pct(times, 50), p95: pct(times, 95), failed };
 }
 
 async function main() {
@@ -98,7 +161,10 @@ async function main() {
       .returning('id');
     await db('guides').where({ id: guide.id }).update({ published_version_id: version.id });
 
-    const started = await startApp(dbUrl);
+    // The app reaches PostgreSQL as `npm start` does: through the cluster's Unix socket when it can
+    // (BENCH_PG_TCP=1 forces loopback TCP).
+    const appDbUrl = process.env.BENCH_PG_TCP === '1' ? dbUrl : cluster.localUrlFor(dbName);
+    const started = await startApp(appDbUrl);
     app = started.child;
     const { base } = started;
     let t0 = performance.now();
@@ -128,6 +194,7 @@ async function main() {
       url: base,
       connections: TECHS,
       duration: SECONDS,
+      timeout: TIMEOUT_S,
       requests: [
         {
           method: 'POST',
@@ -163,30 +230,123 @@ async function main() {
       ],
     } as any);
     const mixedSeconds = (performance.now() - t0) / 1000;
-    // Answers still in flight when the run stops are stored but never acknowledged; what matters is
+    // `failures` counted every non-2xx answer; autocannon's errors include its timeouts.
+    const mixedFailed = failures + mixed.errors;
+    if (mixed.errors) console.error(`mixed run: ${mixed.errors} requests without an answer, ${mixed.timeouts} of them timed out (no answer in ${TIMEOUT_S} s)`);
+
+    // Separate phases, same connections, same duration: the floors, then answering alone.
+    const PHASE = Math.max(5, Math.round(SECONDS / 3));
+    let n = 0;
+    const signedGet = (path: string) => ({
+      method: 'GET',
+      path,
+      setupRequest: (req: any, ctx: Ctx) => {
+        ctx.cookie ??= cookies[n++ % cookies.length];
+        ctx.sentAt = performance.now();
+        return { ...req, headers: { ...req.headers, cookie: ctx.cookie } };
+      },
+    });
+    const noop = await phase(base, 'floor: signed-in no-op', PHASE, signedGet('/api/health/floor/noop'));
+    const query = await phase(base, 'floor: signed-in one query', PHASE, signedGet('/api/health/floor/query'));
+
+    // Each connection answers up to four steps of a walk (choice, reading, cautions, try), then the
+    // next of its own walks, made beforehand so the phase measures answering and nothing else.
+    const users = (await db('users').whereIn('email', emails).select('id', 'email')) as { id: number; email: string }[];
+    const userOf = new Map(users.map((u) => [u.email, u.id]));
+    const perTech = Math.ceil((Math.max(query.rps, noop.rps) * PHASE * 2) / TECHS / 2) + 5;
+    const walkRows = emails.flatMap((email) =>
+      Array.from({ length: perTech }, () => ({ organisation_id: org.id, guide_id: guide.id, guide_version_id: version.id, user_id: userOf.get(email), status: 'open', current_step_id: SAMPLE_GUIDE.startStepId, site: 'Load plant' })),
+    );
+    const walksOf = new Map<number, number[]>();
+    for (let i = 0; i < walkRows.length; i += 2000) {
+      const made = (await db('walks').insert(walkRows.slice(i, i + 2000)).returning(['id', 'user_id'])) as { id: number; user_id: number }[];
+      for (const w of made) walksOf.set(w.user_id, (walksOf.get(w.user_id) ?? []).concat(w.id));
+    }
+    // autocannon clears a connection's context after every request of the list, so each walk's
+    // progress lives in a cursor taken from a free list for the request and put back with its answer.
+    type Cursor = { cookie: string; walks: number[]; walkId?: number; stepId?: string; cautions: string[]; depth: number };
+    const free: Cursor[] = [];
+    cookies.forEach((cookie, i) => {
+      const mine = walksOf.get(userOf.get(emails[i])!) ?? [];
+      const half = Math.ceil(mine.length / 2);
+      for (const walks of [mine.slice(0, half), mine.slice(half)]) free.push({ cookie, walks, cautions: [], depth: 4 });
+    });
+    const nextWalk = (c: Cursor) => {
+      c.walkId = c.walks.shift();
+      c.stepId = SAMPLE_GUIDE.startStepId;
+      c.cautions = [];
+      c.depth = 0;
+    };
+    const inFlight = new Map<Cursor, number>();
+    const answeredAlone = new Set<string>();
+    let ranOut = 0;
+    const answerAlone = await phase(
+      base,
+      'POST /api/walks/:id/answers alone',
+      PHASE,
+      {
+        method: 'POST',
+        setupRequest: (req: any, ctx: Ctx & { cursor?: Cursor }) => {
+          // A request that timed out never reaches onResponse; its cursor is taken back after the timeout.
+          const c = free.pop() ?? [...inFlight].find(([, at]) => performance.now() - at > TIMEOUT_S * 1000)?.[0];
+          if (!c) throw new Error('more connections than walk cursors');
+          inFlight.set(c, performance.now());
+          ctx.cursor = c;
+          let body = c.depth < 4 ? answerFor(c.stepId, c.cautions) : null;
+          if (!body) {
+            nextWalk(c);
+            if (c.walkId === undefined) ranOut++;
+            body = answerFor(c.stepId, c.cautions);
+          }
+          ctx.answerId = `solo-${randomUUID()}`;
+          ctx.sentAt = performance.now();
+          return { ...req, path: `/api/walks/${c.walkId}/answers`, body: JSON.stringify({ id: ctx.answerId, answeredAt: new Date().toISOString(), ...body }), headers: { ...json, cookie: c.cookie } };
+        },
+      },
+      (status, body, ctx: Ctx & { cursor?: Cursor }) => {
+        const c = ctx.cursor!;
+        if (!inFlight.delete(c)) return;
+        free.push(c);
+        if (status !== 201) {
+          c.depth = 4;
+          return;
+        }
+        const out = JSON.parse(body);
+        if (out.duplicate === false) answeredAlone.add(ctx.answerId!);
+        c.depth += 1;
+        c.stepId = out.state?.ended ? undefined : out.state?.at;
+        c.cautions = out.state?.unacknowledged ?? [];
+      },
+    );
+    if (ranOut) console.error(`${ranOut} answer requests found no walk left: make more walks per technician`);
+
+    // Answers still in flight when a run stops are stored but never acknowledged; what matters is
     // that every acknowledged one is there exactly once, and nothing is stored twice.
     const stored = Number((await db('walk_answers').count('* as n'))[0].n);
-    const ids = [...acknowledgedIds];
+    const ids = [...acknowledgedIds, ...answeredAlone];
     let found = 0;
     for (let i = 0; i < ids.length; i += 5000) found += Number((await db('walk_answers').whereIn('client_id', ids.slice(i, i + 5000)).count('* as n'))[0].n);
     const duplicates = Number((await db.raw('select count(*)::int as n from (select client_id from walk_answers group by client_id having count(*) > 1) d')).rows[0].n);
 
-    const noop = await floor(base, cookies, '/api/health/floor/noop');
-    const query = await floor(base, cookies, '/api/health/floor/query');
-
-    const failed = mixed.non2xx + mixed.errors + mixed.timeouts + failures;
-    console.log(`\n${TECHS} technicians, ${SECONDS} s mixed run (sign-in of all: ${signInMs.toFixed(0)} ms)`);
-    console.log('route                               requests     req/s   p50 ms   p95 ms   vs no-op  vs 1-query');
-    for (const [label, xs] of Object.entries(times)) {
-      const rps = xs.length / mixedSeconds;
-      console.log(`${label.padEnd(34)}${String(xs.length).padStart(10)}${rps.toFixed(0).padStart(10)}${pct(xs, 50).toFixed(1).padStart(9)}${pct(xs, 95).toFixed(1).padStart(9)}${(rps / noop.rps).toFixed(2).padStart(11)}${(rps / query.rps).toFixed(2).padStart(11)}`);
-    }
-    console.log(`floor: signed-in no-op         ${noop.rps.toFixed(0).padStart(10)} req/s alone, p95 ${noop.p95.toFixed(1)} ms, failed ${noop.failed}`);
-    console.log(`floor: signed-in one query     ${query.rps.toFixed(0).padStart(10)} req/s alone, p95 ${query.p95.toFixed(1)} ms, failed ${query.failed}`);
-    console.log(`failed requests: ${failed}; answers acknowledged: ${ids.length}; of those in the database: ${found}; stored in all: ${stored} (the rest were in flight at the stop); stored twice: ${duplicates}`);
-    const ok = failed === 0 && noop.failed === 0 && query.failed === 0 && found === ids.length && ids.length > 0 && duplicates === 0 && stored - ids.length <= TECHS;
-    console.log(ok ? 'PASS: zero failed requests, zero lost or duplicated answers' : 'FAIL');
-    if (!ok) process.exitCode = 1;
+    const row = (label: string, count: number, rps: number, p50: number, p95: number) =>
+      `${label.padEnd(38)}${String(count).padStart(9)}${rps.toFixed(0).padStart(9)}${p50.toFixed(1).padStart(9)}${p95.toFixed(1).padStart(9)}${(rps / noop.rps).toFixed(2).padStart(10)}${(rps / query.rps).toFixed(2).padStart(11)}`;
+    const head = `${'route'.padEnd(38)}${'requests'.padStart(9)}${'req/s'.padStart(9)}${'p50 ms'.padStart(9)}${'p95 ms'.padStart(9)}${'vs no-op'.padStart(10)}${'vs 1-query'.padStart(11)}`;
+    console.log(`\nPostgreSQL through ${appDbUrl.includes('?host=') ? 'its Unix socket' : 'loopback TCP'}`);
+    console.log(`${TECHS} technicians, mixed run ${SECONDS} s (sign-in of all: ${signInMs.toFixed(0)} ms); each route is a quarter of every loop`);
+    console.log(head);
+    for (const [label, xs] of Object.entries(times)) console.log(row(label, xs.length, xs.length / mixedSeconds, pct(xs, 50), pct(xs, 95)));
+    console.log(`\nphases alone, ${TECHS} connections, ${PHASE} s each`);
+    console.log(head);
+    for (const p of [noop, query, answerAlone]) console.log(row(p.label, p.requests, p.rps, p.p50, p.p95));
+    const failed = mixedFailed + noop.failed + query.failed + answerAlone.failed;
+    console.log(`\nfailed requests: ${failed} (mixed ${mixedFailed}, floors ${noop.failed + query.failed}, answers alone ${answerAlone.failed})`);
+    console.log(`answers acknowledged: ${ids.length} (mixed ${acknowledgedIds.size}, alone ${answeredAlone.size}); of those in the database: ${found}; stored in all: ${stored} (the rest were in flight at a stop); stored twice: ${duplicates}`);
+    const ok = failed === 0 && found === ids.length && acknowledgedIds.size > 0 && answeredAlone.size > 0 && duplicates === 0 && stored - ids.length <= 2 * TECHS;
+    console.log(ok ? 'PASS: zero failed requests, zero lost or duplicated answers' : 'FAIL: failed requests, or lost or duplicated answers');
+    const ratio = answerAlone.rps / query.rps;
+    const target = ratio >= 0.4;
+    console.log(`${target ? 'PASS' : 'FAIL'}: answering a walk step alone reaches ${(ratio * 100).toFixed(0)} % of the one-query floor (target at least 40 %)`);
+    if (!ok || !target) process.exitCode = 1;
   } finally {
     // The app must be gone before its database is dropped, or its last in-flight queries log errors.
     if (app && app.exitCode === null) await new Promise((r) => (app!.once('exit', r), app!.kill()));

@@ -13,7 +13,8 @@ function isDatabaseDown(err: unknown): boolean {
   const e = err as { code?: string; message?: string };
   return (
     ['ECONNREFUSED', 'ECONNRESET', '57P01', '57P03', '08006', '08001', '08003'].includes(e?.code ?? '') ||
-    /Knex: Timeout acquiring a connection|Connection terminated/i.test(e?.message ?? '')
+    // A connection that broke mid-transaction refuses its ROLLBACK or COMMIT with "... is not queryable".
+    /Knex: Timeout acquiring a connection|Connection terminated|is not queryable/i.test(e?.message ?? '')
   );
 }
 

@@ -136,6 +136,26 @@ function toNote(r: {
   };
 }
 
+function patchColumns(db: Knex, patch: WalkPatch): Record<string, unknown> {
+  const set: Record<string, unknown> = { updated_at: db.fn.now() };
+  if (patch.status !== undefined) set.status = patch.status;
+  if (patch.currentStepId !== undefined) set.current_step_id = patch.currentStepId;
+  if (patch.endedAtStepId !== undefined) set.ended_at_step_id = patch.endedAtStepId;
+  if (patch.endKind !== undefined) set.end_kind = patch.endKind;
+  if (patch.outcome !== undefined) set.outcome = patch.outcome;
+  if (patch.causeCode !== undefined) set.cause_code = patch.causeCode;
+  if (patch.outcomeNote !== undefined) set.outcome_note = patch.outcomeNote;
+  if (patch.answerCount !== undefined) set.answer_count = patch.answerCount;
+  if (patch.ended) set.ended_at = db.fn.now();
+  return set;
+}
+
+/** One stored entry of a walk's log with its place in it. */
+export interface LoggedAnswer {
+  seq: number;
+  entry: WalkAnswer;
+}
+
 export const walksRepository = {
   async guideForStart(db: Knex, organisationId: number, guideId: number): Promise<GuideForStart | undefined> {
     // A share lock keeps the guide from being retired or republished while the walk pins its version.
@@ -161,6 +181,12 @@ export const walksRepository = {
       content: r.content as GuideContent,
       guideStatus: r.guide_status,
     };
+  },
+
+  /** Just the steps of a version, for checking answers against it. */
+  async versionContent(db: Knex, versionId: number): Promise<{ state: string; content: GuideContent } | undefined> {
+    const r = await db('guide_versions').where({ id: versionId }).first('state', 'content');
+    return r ? { state: r.state, content: r.content as GuideContent } : undefined;
   },
 
   async versionsById(db: Knex, ids: number[]): Promise<Map<number, { number: number; title: string; symptom: string; content: GuideContent }>> {
@@ -241,35 +267,55 @@ export const walksRepository = {
   },
 
   async update(db: Knex, id: number, patch: WalkPatch): Promise<void> {
-    const set: Record<string, unknown> = { updated_at: db.fn.now() };
-    if (patch.status !== undefined) set.status = patch.status;
-    if (patch.currentStepId !== undefined) set.current_step_id = patch.currentStepId;
-    if (patch.endedAtStepId !== undefined) set.ended_at_step_id = patch.endedAtStepId;
-    if (patch.endKind !== undefined) set.end_kind = patch.endKind;
-    if (patch.outcome !== undefined) set.outcome = patch.outcome;
-    if (patch.causeCode !== undefined) set.cause_code = patch.causeCode;
-    if (patch.outcomeNote !== undefined) set.outcome_note = patch.outcomeNote;
-    if (patch.answerCount !== undefined) set.answer_count = patch.answerCount;
-    if (patch.ended) set.ended_at = db.fn.now();
-    await db('walks').where({ id }).update(set);
+    await db('walks').where({ id }).update(patchColumns(db, patch));
+  },
+
+  /**
+   * The walk with its answer log, in one statement (one round trip instead of two); with `lock`,
+   * the row is locked for the caller's transaction. Unlocked, row and log come from one snapshot
+   * and always agree. Locked, the log is read from the statement's snapshot, which can miss an
+   * answer committed while the lock was waited for, whereas the locked row is always the newest: the
+   * log is then returned only when its length equals the row's answer_count, else null (read it again).
+   */
+  async findWithLog(db: Knex, organisationId: number, id: number, opts: { lock?: boolean } = {}): Promise<{ walk: WalkRecord; log: LoggedAnswer[] | null } | undefined> {
+    const q = db('walks as w')
+      .leftJoin('users as u', 'u.id', 'w.user_id')
+      .where({ 'w.id': id, 'w.organisation_id': organisationId })
+      .first(
+        ...WALK_COLUMNS,
+        db.raw(
+          `(select coalesce(json_agg(json_build_object('seq', a.seq, 'id', a.client_id, 'kind', a.kind, 'stepId', a.step_id, 'payload', a.payload) order by a.seq), '[]'::json)
+            from walk_answers a where a.walk_id = w.id) as log`,
+        ),
+      );
+    if (opts.lock) q.forUpdate('w');
+    const row = (await q) as (WalkRow & { log: { seq: number; id: string; kind: string; stepId: string; payload: WalkAnswer }[] }) | undefined;
+    if (!row) return undefined;
+    const walk = toWalk(row);
+    if (row.log.length !== row.answer_count) return { walk, log: null };
+    return { walk, log: row.log.map((a) => ({ seq: a.seq, entry: { ...a.payload, id: a.id, kind: a.kind, stepId: a.stepId } as WalkAnswer })) };
+  },
+
+  /**
+   * Stores one answer and moves the walk on, in one statement, only if the walk still stands where
+   * the caller read it (same answer count and status): the answer was checked against that. Returns
+   * the walk as it now stands, or undefined when it had moved meanwhile and nothing was written.
+   */
+  async appendAnswer(db: Knex, walk: WalkRecord, seq: number, entry: WalkAnswer, patch: WalkPatch): Promise<WalkRecord | undefined> {
+    const moved = db('walks').where({ id: walk.id, answer_count: walk.answerCount, status: walk.status }).update(patchColumns(db, patch)).returning('*');
+    const added = db.raw(
+      `insert into walk_answers (walk_id, seq, client_id, kind, step_id, payload, answered_at)
+       select id, ?, ?, ?, ?, ?::jsonb, ?::timestamptz from moved`,
+      [seq, entry.id, entry.kind, entry.stepId, JSON.stringify(entry), entry.answeredAt],
+    );
+    const [row] = (await db.with('moved', moved).with('added', added).select('*').from('moved')) as WalkRow[];
+    return row ? toWalk({ ...row, user_name: walk.userName }) : undefined;
   },
 
   async answers(db: Knex, walkId: number): Promise<WalkAnswerRecord[]> {
     const rows = await db('walk_answers').where({ walk_id: walkId }).orderBy('seq').select('seq', 'client_id', 'kind', 'step_id', 'payload', 'received_at');
     // The payload is the entry exactly as validated on arrival; the columns are the indexed copies.
     return rows.map((r) => ({ ...(r.payload as WalkAnswer), id: r.client_id, kind: r.kind, stepId: r.step_id, seq: r.seq, receivedAt: r.received_at.toISOString() }) as WalkAnswerRecord);
-  },
-
-  async insertAnswer(db: Knex, walkId: number, seq: number, entry: WalkAnswer): Promise<void> {
-    await db('walk_answers').insert({
-      walk_id: walkId,
-      seq,
-      client_id: entry.id,
-      kind: entry.kind,
-      step_id: entry.stepId,
-      payload: JSON.stringify(entry),
-      answered_at: entry.answeredAt,
-    });
   },
 
   /** The organisation's causes; empty when it has never set its own list. */

@@ -35,6 +35,12 @@ import type { FilesService } from '../files/files.service';
 import { walksRepository as repo, walkMeta, type NoteRecord, type VersionRecord, type WalkPatch, type WalkRecord } from './walks.repository';
 import { buildSummary } from './walks.summary';
 
+/** Reads-then-writes of one answer tried without a lock before taking one. */
+const OPTIMISTIC_TRIES = 3;
+
+/** The walk moved between reading it and storing an answer checked against it; nothing was written. */
+class WalkMoved extends Error {}
+
 /** A start with a client id repeated within this window returns the walk the first one made. */
 export const START_RETRY_WINDOW_S = 15 * 60;
 
@@ -56,7 +62,8 @@ type Applied = { ok: true; duplicate: boolean; state: WalkState } | ({ ok: false
 
 interface AnswerContext {
   walk: WalkRecord;
-  version: VersionRecord;
+  /** The steps of the pinned guide version. */
+  content: GuideContent;
   /** The stored log, as entries only (receipt data stripped so retries compare equal). */
   log: WalkAnswer[];
   lastSeq: number;
@@ -179,12 +186,37 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
     };
   }
 
-  async function answerContext(trx: Knex, user: SessionUser, walkId: number): Promise<AnswerContext> {
-    const walk = await mustFind(trx, user, walkId, true);
+  // A published version's steps never change afterwards (only its state moves on to superseded),
+  // and walks only pin published versions, so answers are checked against a copy kept in memory.
+  const contentCache = new Map<number, GuideContent>();
+  const CONTENT_CACHE_SIZE = 500;
+
+  async function pinnedContent(trx: Knex, walk: WalkRecord): Promise<GuideContent> {
+    const cached = contentCache.get(walk.guideVersionId);
+    if (cached) return cached;
+    const found = await repo.versionContent(trx, walk.guideVersionId);
+    // The foreign key makes this unreachable; the message is for a database edited by hand.
+    if (!found) throw AppError.conflict('The guide version this walk was started on no longer exists');
+    if (found.state === 'published' || found.state === 'superseded') {
+      if (contentCache.size >= CONTENT_CACHE_SIZE) contentCache.delete(contentCache.keys().next().value!);
+      contentCache.set(walk.guideVersionId, found.content);
+    }
+    return found.content;
+  }
+
+  /**
+   * The walk (locked for the caller's transaction with `lock`), its log and its pinned steps: one
+   * round trip when the cache holds the steps.
+   */
+  async function answerContext(trx: Knex, user: SessionUser, walkId: number, lock: boolean): Promise<AnswerContext> {
+    const found = await repo.findWithLog(trx, user.organisationId, walkId, { lock });
+    if (!found) throw AppError.notFound('This walk');
+    const { walk } = found;
     mustOwn(user, walk, 'answer it');
-    const version = await pinned(trx, walk);
-    const records = await repo.answers(trx, walk.id);
-    return { walk, version, log: records.map(entryOf), lastSeq: records.length ? records[records.length - 1].seq : 0 };
+    const content = await pinnedContent(trx, walk);
+    // The log missed an answer committed while the lock was waited for: read it again, now under the lock.
+    const logged = found.log ?? (await repo.answers(trx, walk.id)).map((r) => ({ seq: r.seq, entry: entryOf(r) }));
+    return { walk, content, log: logged.map((l) => l.entry), lastSeq: logged.length ? logged[logged.length - 1].seq : 0 };
   }
 
   function endPatch(ctx: AnswerContext, state: WalkState): WalkPatch {
@@ -193,7 +225,7 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
     if (state.ended === 'handoff') return { ...patch, ...end, endKind: 'handoff' };
     if (state.ended === 'fixed-by-try') return { ...patch, ...end, endKind: 'fixed-by-try', outcome: 'fixed' };
     if (state.ended === 'finding' && state.outcome) {
-      const finding = ctx.version.content.steps.find((s) => s.id === state.at);
+      const finding = ctx.content.steps.find((s) => s.id === state.at);
       const outcome = state.outcome;
       // The finding's cause is confirmed only when its remedy fixed the fault; 'not fixed' leaves it open.
       const causeCode =
@@ -220,26 +252,22 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
     if (!known && entry.kind === 'finding-outcome' && entry.causeCode && !ctx.causeCodes) {
       ctx.causeCodes = (await causes(trx, user.organisationId)).activeCodes;
     }
-    const result = canAnswer(ctx.version.content, ctx.log, entry, { causeCodes: ctx.causeCodes });
+    const result = canAnswer(ctx.content, ctx.log, entry, { causeCodes: ctx.causeCodes });
     if (!result.ok) {
       const { ok: _ok, ...problem } = result;
-      const refusal = problemRefusal(problem, problem.code === 'cautions-unacknowledged' ? replayPath(ctx.version.content, ctx.log) : undefined);
+      const refusal = problemRefusal(problem, problem.code === 'cautions-unacknowledged' ? replayPath(ctx.content, ctx.log) : undefined);
       return { ok: false, ...refusal };
     }
     if (result.duplicate) return { ok: true, duplicate: true, state: result.state };
 
     const seq = ctx.lastSeq + 1;
-    await repo.insertAnswer(trx, ctx.walk.id, seq, entry);
-    const patch = endPatch(ctx, result.state);
-    await repo.update(trx, ctx.walk.id, patch);
+    // The answer and the walk's new place go in one statement, which hands back the walk as stored,
+    // and writes nothing if the walk moved since it was read (the answer was checked against that).
+    const stored = await repo.appendAnswer(trx, ctx.walk, seq, entry, endPatch(ctx, result.state));
+    if (!stored) throw new WalkMoved();
+    ctx.walk = stored;
     ctx.lastSeq = seq;
     ctx.log.push(entry);
-    ctx.walk = {
-      ...ctx.walk,
-      status: patch.status ?? ctx.walk.status,
-      answerCount: patch.answerCount ?? ctx.walk.answerCount,
-      currentStepId: patch.currentStepId ?? ctx.walk.currentStepId,
-    };
     return { ok: true, duplicate: false, state: result.state };
   }
 
@@ -338,13 +366,28 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
       return db.transaction(async (trx) => detail(trx, user, await mustFind(trx, user, id)), { isolationLevel: 'repeatable read', readOnly: true });
     },
 
+    /**
+     * One answer in two round trips and no open transaction: read the walk and its log, check the
+     * entry, then store it with a statement that writes only if the walk has not moved since (its
+     * answer count and status), committed on its own. If another answer got in between, the walk
+     * is read again; a walk that keeps moving is answered under a row lock instead.
+     */
     async answer(user: SessionUser, walkId: number, entry: WalkAnswer): Promise<AnswerResult> {
-      return db.transaction(async (trx) => {
-        const ctx = await answerContext(trx, user, walkId);
+      const attempt = async (trx: Knex, lock: boolean): Promise<AnswerResult> => {
+        const ctx = await answerContext(trx, user, walkId, lock);
         const applied = await applyEntry(trx, user, ctx, entry);
         if (!applied.ok) throw refusalError(applied);
-        return { duplicate: applied.duplicate, state: applied.state, walk: await freshMeta(trx, user, walkId) };
-      });
+        // The row read, or the row the answer's own statement returned, is the walk as it now stands.
+        return { duplicate: applied.duplicate, state: applied.state, walk: walkMeta(ctx.walk) };
+      };
+      for (let tries = 0; tries < OPTIMISTIC_TRIES; tries++) {
+        try {
+          return await attempt(db, false);
+        } catch (err) {
+          if (!(err instanceof WalkMoved)) throw err;
+        }
+      }
+      return db.transaction((trx) => attempt(trx, true));
     },
 
     /**
@@ -353,7 +396,7 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
      */
     async answerBatch(user: SessionUser, walkId: number, entries: unknown[]): Promise<BatchResult> {
       const outcome = await db.transaction(async (trx) => {
-        const ctx = await answerContext(trx, user, walkId);
+        const ctx = await answerContext(trx, user, walkId, true);
         const applied: BatchApplied[] = [];
         let rejected: { index: number; id: string | null; refusal: Refusal } | undefined;
         for (const [index, raw] of entries.entries()) {
@@ -373,7 +416,7 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
           }
           applied.push({ index, id: parsed.data.id, duplicate: result.duplicate });
         }
-        return { applied, rejected, state: replayPath(ctx.version.content, ctx.log), walk: await freshMeta(trx, user, walkId) };
+        return { applied, rejected, state: replayPath(ctx.content, ctx.log), walk: walkMeta(ctx.walk) };
       });
       const { applied, rejected, state, walk } = outcome;
       if (rejected) {
