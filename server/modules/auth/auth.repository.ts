@@ -12,7 +12,7 @@ export interface UserRecord extends SessionUser {
   createdAt: string;
 }
 
-interface UserRow {
+export interface UserRow {
   id: number;
   organisation_id: number;
   organisation_name: string;
@@ -21,7 +21,8 @@ interface UserRow {
   password_hash: string | null;
   roles: Role[];
   active: boolean;
-  unit_system: 'metric' | 'imperial';
+  unit_system: 'metric' | 'imperial' | null;
+  organisation_unit_system: string | null;
   invite_token_hash: string | null;
   invite_expires_at: Date | null;
   last_sign_in_at: Date | null;
@@ -29,6 +30,8 @@ interface UserRow {
 }
 
 export function toUser(row: UserRow): UserRecord {
+  // The same rule as orgSettingsFrom: anything but 'imperial' (or nothing set) means metric.
+  const organisationUnitSystem = row.organisation_unit_system === 'imperial' ? 'imperial' : 'metric';
   return {
     id: row.id,
     organisationId: row.organisation_id,
@@ -36,7 +39,9 @@ export function toUser(row: UserRow): UserRecord {
     email: row.email,
     name: row.name,
     roles: row.roles,
-    unitSystem: row.unit_system,
+    unitSystem: row.unit_system ?? organisationUnitSystem,
+    unitSystemSource: row.unit_system ? 'own' : 'organisation',
+    organisationUnitSystem,
     active: row.active,
     passwordHash: row.password_hash,
     invitePending: Boolean(row.invite_token_hash),
@@ -49,7 +54,7 @@ export function toUser(row: UserRow): UserRecord {
 function base(db: Knex) {
   return db('users as u')
     .join('organisations as o', 'o.id', 'u.organisation_id')
-    .select('u.*', 'o.name as organisation_name');
+    .select('u.*', 'o.name as organisation_name', db.raw(`o.settings->>'defaultUnitSystem' as organisation_unit_system`));
 }
 
 export const usersRepository = {

@@ -17,6 +17,8 @@ export function toSessionUser(u: UserRecord): SessionUser {
     name: u.name,
     roles: u.roles,
     unitSystem: u.unitSystem,
+    unitSystemSource: u.unitSystemSource,
+    organisationUnitSystem: u.organisationUnitSystem,
     organisationId: u.organisationId,
     organisationName: u.organisationName,
   };
@@ -84,7 +86,8 @@ export function createAuthService(db: Knex, mailer?: { mail: MailService; config
       });
     },
 
-    async updateProfile(userId: number, patch: { name?: string; unitSystem?: 'metric' | 'imperial' }) {
+    /** unitSystem null: back to following the organisation's default. */
+    async updateProfile(userId: number, patch: { name?: string; unitSystem?: 'metric' | 'imperial' | null }) {
       const row: Record<string, unknown> = {};
       if (patch.name !== undefined) row.name = patch.name;
       if (patch.unitSystem !== undefined) row.unit_system = patch.unitSystem;

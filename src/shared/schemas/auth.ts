@@ -73,7 +73,8 @@ export type UpdateUserInput = z.output<typeof UpdateUserInput>;
 
 export const UpdateProfileInput = z.object({
   name: z.string().trim().min(1, 'Name is required').max(120).optional(),
-  unitSystem: z.enum(['metric', 'imperial'], { error: 'Unit system must be metric or imperial' }).optional(),
+  /** null: follow the organisation's default. */
+  unitSystem: z.enum(['metric', 'imperial'], { error: 'Unit system must be metric, imperial or null (the organisation default)' }).nullable().optional(),
 });
 
 export const IdParam = z.object({ id: z.coerce.number({ error: 'Id must be a number' }).int().positive('Id must be a positive whole number') });
@@ -83,7 +84,12 @@ export interface SessionUser {
   email: string;
   name: string;
   roles: (typeof ROLES)[number][];
+  /** The system the user sees: their own choice, or the organisation's default when they made none. */
   unitSystem: 'metric' | 'imperial';
+  /** Where unitSystem comes from. */
+  unitSystemSource: 'own' | 'organisation';
+  /** The organisation's default, shown beside the choice on the account page. */
+  organisationUnitSystem: 'metric' | 'imperial';
   organisationId: number;
   organisationName: string;
 }

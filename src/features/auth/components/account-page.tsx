@@ -19,7 +19,8 @@ export function AccountPage() {
   const [fields, setFields] = useState<Record<string, string>>({});
 
   const profile = useMutation({
-    mutationFn: (unitSystem: 'metric' | 'imperial') => api<Me>('/api/auth/me', { method: 'PATCH', body: { unitSystem } }),
+    // null: follow the organisation's default, whatever an admin sets it to later.
+    mutationFn: (unitSystem: 'metric' | 'imperial' | null) => api<Me>('/api/auth/me', { method: 'PATCH', body: { unitSystem } }),
     onSuccess: (m) => {
       qc.setQueryData(authKeys.me, m);
       showToast('Unit system saved', 'ok');
@@ -54,12 +55,16 @@ export function AccountPage() {
           <h2 className="mb-3 text-lg font-semibold">Units</h2>
           <SelectField
             label="Show units first in"
-            value={me.user.unitSystem}
-            onChange={(e) => profile.mutate(e.target.value as 'metric' | 'imperial')}
+            value={me.user.unitSystemSource === 'own' ? me.user.unitSystem : 'organisation'}
+            onChange={(e) => profile.mutate(e.target.value === 'organisation' ? null : (e.target.value as 'metric' | 'imperial'))}
             disabled={profile.isPending}
+            hint="Values can be typed in either system wherever you enter them."
           >
+            <option value="organisation">
+              Organisation default ({me.user.organisationUnitSystem === 'imperial' ? 'US customary' : 'metric'})
+            </option>
             <option value="metric">Metric (bar, mm, °C)</option>
-            <option value="imperial">Imperial (psi, in, °F)</option>
+            <option value="imperial">US customary (psi, in, °F)</option>
           </SelectField>
         </Card>
         <Card>
