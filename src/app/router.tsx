@@ -6,6 +6,7 @@ import { AppLayout } from '@/components/layouts/app-layout';
 import { NotFoundPage, RouteError } from '@/components/errors/route-error';
 import { RequirePermission } from './require-permission';
 import { lazyPage } from './lazy-page';
+import { fetchEarly } from '@/lib/early-fetch';
 
 // Pages load on first visit, so no page carries another's editors, charts, tables or forms: the
 // entry holds React, the router, the query cache and the signed-in frame. The service worker
@@ -21,6 +22,7 @@ const ArticleHistoryPage = lazyPage(() => import('@/features/articles/components
 const SettingsPage = lazyPage(() => import('@/features/admin/components/settings-page'), 'SettingsPage');
 const GuideListPage = lazyPage(() => import('@/features/guides/components/guide-list-page'), 'GuideListPage');
 const GuidePage = lazyPage(() => import('@/features/guides/components/guide-page'), 'GuidePage');
+const GuidePrintPage = lazyPage(() => import('@/features/guides/components/guide-print-page'), 'GuidePrintPage');
 const GuideEditorPage = lazyPage(() => import('@/features/guides/components/guide-editor-page'), 'GuideEditorPage');
 const AssetsRoutes = lazyPage(() => import('@/features/assets/components/assets-routes'), 'AssetsRoutes');
 const CasesRoutes = lazyPage(() => import('@/features/cases/components/cases-routes'), 'CasesRoutes');
@@ -37,7 +39,15 @@ const InvitePage = lazyPage(() => import('@/features/auth/components/invite-page
 const ResetPasswordPage = lazyPage(() => import('@/features/auth/components/reset-password-page'), 'ResetPasswordPage');
 const HelpPage = lazyPage(() => import('./routes/help'), 'HelpPage');
 const WalkStartPage = lazyPage(() => import('@/features/walks/components/walk-start-page'), 'WalkStartPage');
-const WalkRunnerPage = lazyPage(() => import('@/features/walks/components/walk-runner-page'), 'WalkRunnerPage');
+// The walk runner likewise, when a walk's address is opened directly (a link, a reload in the
+// field), and the walk itself: its first view then waits for one round trip, not three.
+const walkRunnerModule = () => import('@/features/walks/components/walk-runner-page');
+const openedWalk = /^\/walks\/(\d+)\/?$/.exec(window.location.pathname);
+if (openedWalk) {
+  void walkRunnerModule();
+  fetchEarly(`/api/walks/${openedWalk[1]}`);
+}
+const WalkRunnerPage = lazyPage(walkRunnerModule, 'WalkRunnerPage');
 const WalkSummaryPage = lazyPage(() => import('@/features/walks/components/walk-summary-page'), 'WalkSummaryPage');
 const SearchPage = lazyPage(() => import('@/features/search/components/search-page'), 'SearchPage');
 const SearchAdminPage = lazyPage(() => import('@/features/search/components/search-page'), 'SearchAdminPage');
@@ -65,6 +75,7 @@ export const router = createBrowserRouter([
           { path: paths.articleHistory(), element: <RequirePermission permission="articles:write"><ArticleHistoryPage /></RequirePermission> },
           { path: paths.guides, element: <RequirePermission permission="guides:read"><GuideListPage /></RequirePermission> },
           { path: paths.guide(), element: <RequirePermission permission="guides:read"><GuidePage /></RequirePermission> },
+          { path: paths.guidePrint(), element: <RequirePermission permission="guides:read"><GuidePrintPage /></RequirePermission> },
           { path: paths.guideEdit(), element: <RequirePermission permission="guides:write"><GuideEditorPage /></RequirePermission> },
           { path: paths.guideWalk(), element: <RequirePermission permission="walks:run"><WalkStartPage /></RequirePermission> },
           { path: paths.walk(), element: <WalkRunnerPage /> },

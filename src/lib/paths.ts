@@ -22,6 +22,7 @@ export const paths = {
   guide: (id: number | string = ':id') => `/guides/${id}`,
   guideEdit: (id: number | string = ':id') => `/guides/${id}/edit`,
   guideWalk: (id: number | string = ':id') => `/guides/${id}/walk`,
+  guidePrint: (id: number | string = ':id') => `/guides/${id}/print`,
   walk: (id: number | string = ':id') => `/walks/${id}`,
   walkSummary: (id: number | string = ':id') => `/walks/${id}/summary`,
   articles: '/articles',

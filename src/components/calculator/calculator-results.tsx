@@ -2,13 +2,14 @@
 import type { CalculatorDeclaration, CalculatorResponse } from '@/shared/calculators/types';
 import { UNITS, kindOfUnit, unitLabel, type QuantityKind } from '@/shared/units';
 import { Icon } from '@/components/ui/icons';
+import { formatNumber } from '@/lib/format';
 
 export function formatValue(v: number): string {
   if (!Number.isFinite(v)) return String(v);
   if (v === 0) return '0';
   const abs = Math.abs(v);
   if (abs >= 1e7 || abs < 1e-4) return v.toExponential(4).replace('e+', ' × 10^').replace('e-', ' × 10^-');
-  return Number(v.toPrecision(6)).toLocaleString('en-US', { maximumFractionDigits: 6 });
+  return formatNumber(Number(v.toPrecision(6)), { maximumFractionDigits: 6 });
 }
 
 const VERDICT_WORDS: Record<string, { text: string; tone: 'ok' | 'bad' | 'neutral' }> = {

@@ -45,8 +45,8 @@ export function AppLayout() {
         Skip to content
       </a>
       <header className="sticky top-0 z-30 border-b border-rule bg-paper/95 backdrop-blur">
-        <div className="mx-auto flex max-w-6xl items-center gap-3 px-4 py-2">
-          <Link to={paths.home} className="text-ink" aria-label="Beadpath home">
+        <div className="mx-auto flex max-w-6xl items-center gap-2 px-4 py-2 md:gap-3">
+          <Link to={paths.home} className="inline-flex min-h-11 items-center text-ink" aria-label="Beadpath home">
             <Wordmark />
           </Link>
           <nav aria-label="Main" className="ml-4 hidden flex-1 items-center gap-1 md:flex">
@@ -127,7 +127,9 @@ export function AppLayout() {
           No connection — walks keep your answers on this phone
         </p>
       )}
-      <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6">
+      {/* At least a screen tall, so the footer starts below the fold and is not pushed down (a
+          layout shift) when the page's content arrives. */}
+      <main id="main" className="mx-auto min-h-dvh w-full max-w-6xl flex-1 px-4 py-6">
         {/* Pages load on first visit; the skeleton holds their place inside the frame. */}
         <Suspense fallback={<LoadingBlock label="Loading the page" />}>
           <Outlet />

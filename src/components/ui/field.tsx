@@ -43,7 +43,7 @@ export const TextField = forwardRef<HTMLInputElement, FieldProps & InputHTMLAttr
   );
 });
 
-export function SelectField({ label, error, id, children, className = '', ...rest }: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
+export function SelectField({ label, error, hint, id, children, className = '', ...rest }: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
   const auto = useId();
   const fieldId = id ?? auto;
   return (
@@ -51,10 +51,21 @@ export function SelectField({ label, error, id, children, className = '', ...res
       <label htmlFor={fieldId} className="mb-1 block text-sm font-semibold text-ink">
         {label}
       </label>
-      <select id={fieldId} className={inputClass} aria-invalid={error ? true : undefined} {...rest}>
+      <select
+        id={fieldId}
+        className={inputClass}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined}
+        {...rest}
+      >
         {children}
       </select>
-      {error ? <p className="mt-1 text-sm font-semibold text-danger">{error}</p> : null}
+      {hint && !error ? (
+        <p id={`${fieldId}-hint`} className="mt-1 text-sm text-ink-soft">
+          {hint}
+        </p>
+      ) : null}
+      {error ? <p id={`${fieldId}-error`} className="mt-1 text-sm font-semibold text-danger">{error}</p> : null}
     </div>
   );
 }

@@ -3,13 +3,14 @@
 import { useState } from 'react';
 import { errorMessage } from '@/lib/api-client';
 import { showToast } from '@/lib/toasts';
-import { uploadFile } from '@/lib/uploads';
+import { percent, uploadFile } from '@/lib/uploads';
 
 export function PhotoCaptureButton({ onAdded }: { onAdded: (photo: { id: string; url: string }) => void }) {
-  const [uploading, setUploading] = useState(false);
+  // null: not uploading; otherwise the share sent so far.
+  const [sent, setSent] = useState<number | null>(null);
   return (
-    <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold">
-      {uploading ? 'Uploading…' : 'Take or add a photo'}
+    <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold" data-upload-progress={sent === null ? undefined : percent(sent)}>
+      <span aria-live="polite">{sent !== null ? `Uploading the photo… ${percent(sent)}` : 'Take or add a photo'}</span>
       <input
         type="file"
         accept="image/jpeg,image/png,image/webp"
@@ -18,15 +19,15 @@ export function PhotoCaptureButton({ onAdded }: { onAdded: (photo: { id: string;
         onChange={async (e) => {
           const file = e.target.files?.[0];
           e.target.value = '';
-          if (!file) return;
-          setUploading(true);
+          if (!file || sent !== null) return;
+          setSent(0);
           try {
-            const up = await uploadFile(file);
+            const up = await uploadFile(file, { onProgress: setSent });
             onAdded({ id: up.id, url: up.urls.thumb });
           } catch (err) {
             showToast(`The photo was not added: ${errorMessage(err)}`, 'error');
           } finally {
-            setUploading(false);
+            setSent(null);
           }
         }}
       />

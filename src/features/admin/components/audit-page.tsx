@@ -3,10 +3,11 @@
 import { useState } from 'react';
 import { errorMessage } from '@/lib/api-client';
 import { Button } from '@/components/ui/button';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, Notice } from '@/components/ui/feedback';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Card, PageHeader } from '@/components/ui/page';
 import { useAuditLog, type AuditFilters } from '../api/audit';
+import { formatDateTime } from '@/lib/format';
 
 const KINDS = ['guide', 'article', 'user', 'organisation', 'tags', 'causes', 'sites', 'lines', 'fields', 'applicators', 'readings'];
 
@@ -47,11 +48,13 @@ export function AuditPage() {
         </form>
       </Card>
       {log.isPending ? (
-        <LoadingBlock label="Loading the audit log" />
+        <ListSkeleton label="Loading the audit log" rows={8} />
       ) : log.isError ? (
         <Notice tone="error" title="The audit log could not be loaded">{errorMessage(log.error)}</Notice>
       ) : log.data.events.length === 0 ? (
-        <EmptyState title="Nothing recorded for these filters" />
+        <EmptyState title="Nothing recorded for these filters">
+          Widen the dates or clear a filter. Sign-ins, changes to people, guides, articles, applicators and settings, and exports are all recorded here.
+        </EmptyState>
       ) : (
         <Card className="overflow-x-auto">
           <table className="w-full text-left">
@@ -67,7 +70,7 @@ export function AuditPage() {
             <tbody>
               {log.data.events.map((e) => (
                 <tr key={e.id} className="border-t border-rule align-top">
-                  <td className="whitespace-nowrap p-2 text-sm">{new Date(e.at).toLocaleString()}</td>
+                  <td className="whitespace-nowrap p-2 text-sm">{formatDateTime(e.at)}</td>
                   <td className="p-2 text-sm">{e.userName ?? e.userEmail ?? 'Someone since removed'}</td>
                   <td className="p-2 text-sm">
                     <code>{e.action}</code>

@@ -7,10 +7,11 @@ import { clientFieldErrors, serverFieldErrors } from '@/lib/form-errors';
 import { showToast } from '@/lib/toasts';
 import { paths } from '@/lib/paths';
 import { Button } from '@/components/ui/button';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, Notice } from '@/components/ui/feedback';
 import { TextField } from '@/components/ui/field';
 import { Card, PageHeader } from '@/components/ui/page';
 import { useInviteUser, useReissueInvite, useUpdateUser, useUsers, type AdminUser } from '../api/users';
+import { formatDate } from '@/lib/format';
 
 function RolePicker({ value, onChange, legend, error }: { value: Role[]; onChange: (r: Role[]) => void; legend: string; error?: string }) {
   return (
@@ -119,7 +120,7 @@ function UserRow({ user, isSelf }: { user: AdminUser; isSelf: boolean }) {
             ) : user.invitePending ? (
               <span className="font-semibold text-amber-deep">Invitation pending</span>
             ) : user.lastSignInAt ? (
-              `Last signed in ${new Date(user.lastSignInAt).toLocaleDateString()}`
+              `Last signed in ${formatDate(user.lastSignInAt)}`
             ) : (
               'Never signed in'
             )}
@@ -188,7 +189,7 @@ export function UsersPage() {
       <div className="grid gap-6 lg:grid-cols-[1fr_24rem]">
         <div>
           {users.isPending ? (
-            <LoadingBlock label="Loading users" />
+            <ListSkeleton label="Loading users" />
           ) : users.isError ? (
             <Notice tone="error" title="Users could not be loaded">
               Reload the page to try again.

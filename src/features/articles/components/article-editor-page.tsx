@@ -14,6 +14,7 @@ import { RichTextEditor } from '@/components/rich-text/rich-text-editor';
 import { uploadFile, useArticle, useTags } from '../api/articles';
 import { fieldsFrom, readBackup, useArticleDraft, type Backup, type DraftFields, type SaveStatus } from '../hooks/use-article-draft';
 import { TagPicker } from '@/components/tags/tag-chips';
+import { formatDateTime, formatTime } from '@/lib/format';
 
 const STATUS_WORDS: Record<SaveStatus, string> = {
   saved: 'All changes saved',
@@ -78,14 +79,14 @@ function Editor({ article }: { article: ArticleDetail | null }) {
         <h1 className="text-2xl font-semibold">{article ? 'Edit article' : 'New article'}</h1>
         <p role="status" aria-live="polite" data-save-status={draft.status} className={`text-sm font-semibold ${draft.status === 'saved' ? 'text-fixed' : draft.status === 'error' || draft.status === 'conflict' ? 'text-danger' : 'text-ink-soft'}`}>
           {STATUS_WORDS[draft.status]}
-          {draft.status === 'saved' && draft.lastSavedAt ? ` · ${draft.lastSavedAt.toLocaleTimeString()}` : ''}
+          {draft.status === 'saved' && draft.lastSavedAt ? ` · ${formatTime(draft.lastSavedAt)}` : ''}
         </p>
       </div>
 
       {backup ? (
         <div className="mb-4">
           <Notice tone="warn" title="Unsaved text from this device">
-            <p>On {new Date(backup.savedAt).toLocaleString()} you typed changes here that did not reach the server.</p>
+            <p>On {formatDateTime(backup.savedAt)} you typed changes here that did not reach the server.</p>
             <div className="mt-2 flex flex-wrap gap-2">
               <Button
                 onClick={() => {

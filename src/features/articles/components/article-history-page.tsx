@@ -6,6 +6,7 @@ import { Button } from '@/components/ui/button';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
 import { Card, PageHeader } from '@/components/ui/page';
 import { useArticle, useComparison, useRestoreRevision, useRevisions, type Chunk } from '../api/articles';
+import { formatDateTime } from '@/lib/format';
 
 function Diff({ chunks, block }: { chunks: Chunk[]; block?: boolean }) {
   return (
@@ -61,7 +62,7 @@ export function ArticleHistoryPage() {
                   {r.number === a.headRevision ? <span className="ml-2 rounded bg-amber-wash px-1.5 text-xs text-amber-deep">current</span> : null}
                 </p>
                 <p className="text-sm text-ink-soft">
-                  {r.authorName ?? 'Unknown'} · {new Date(r.updatedAt).toLocaleString()}
+                  {r.authorName ?? 'Unknown'} · {formatDateTime(r.updatedAt)}
                 </p>
                 {r.note ? <p className="text-sm">{r.note}</p> : null}
                 <div className="mt-1 flex flex-wrap gap-1">

@@ -4,7 +4,7 @@ import { Link, useSearchParams } from 'react-router';
 import { HAZARDS, type Hazard } from '@/shared/tags';
 import { useCan } from '@/lib/auth';
 import { ButtonLink } from '@/components/ui/button';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, Notice } from '@/components/ui/feedback';
 import { TextField } from '@/components/ui/field';
 import { PageHeader } from '@/components/ui/page';
 import { useArticles, useTags } from '../api/articles';
@@ -81,7 +81,7 @@ export function ArticleListPage() {
         </div>
       </form>
       {list.isPending ? (
-        <LoadingBlock label="Loading articles" />
+        <ListSkeleton label="Loading articles" />
       ) : list.isError ? (
         <Notice tone="error" title="Articles could not be loaded">Reload the page to try again.</Notice>
       ) : list.data.length === 0 ? (

@@ -179,7 +179,7 @@ export function ArticlePage() {
   return (
     <article className="mx-auto max-w-3xl">
       <nav className="no-print mb-3 text-sm">
-        <Link to="/articles" className="font-semibold text-amber-deep underline">All articles</Link>
+        <Link to="/articles" className="inline-flex min-h-11 items-center font-semibold text-amber-deep underline">All articles</Link>
       </nav>
       {isAuthor ? <AuthorPanel article={a} /> : null}
       <header className="mb-5">

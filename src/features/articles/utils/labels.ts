@@ -1,4 +1,5 @@
 // Words for an article's state, as authors and readers see them.
+import { formatDate as formatLocalDate } from '@/lib/format';
 import type { ArticleSummary } from '@/shared/schemas/articles';
 
 export function statusLabel(a: Pick<ArticleSummary, 'workflow' | 'published' | 'hasUnpublishedChanges'>): { text: string; tone: 'ok' | 'warn' | 'muted' } {
@@ -17,5 +18,5 @@ export const toneClass = {
 
 export function formatDate(iso: string | null | undefined): string {
   if (!iso) return '';
-  return new Date(iso).toLocaleDateString(undefined, { year: 'numeric', month: 'short', day: 'numeric' });
+  return formatLocalDate(iso);
 }

@@ -154,21 +154,21 @@ export const useAddServiceEvent = (id: number) => useApplicatorPost(id, 'service
 export const useRemoveServiceEvent = (id: number) => useApplicatorPost(id, 'service-events', 'DELETE');
 
 /** Sends the file itself as text/csv: big files stay within the API's limits and nothing re-encodes it. */
-async function postCsv<T>(path: string, csv: string): Promise<T> {
-  let res: Response;
+// Sent with upload progress: a 40 MB file on a slow link takes a while.
+async function postCsv<T>(path: string, csv: string, onProgress?: (fraction: number) => void): Promise<T> {
   try {
-    res = await fetch(path, { method: 'POST', credentials: 'same-origin', headers: { Accept: 'application/json', 'Content-Type': 'text/csv; charset=utf-8' }, body: csv });
-  } catch {
-    throw new ApiError(0, 'network', 'The file could not be sent: no connection. Try again when you are back online.');
+    // Loaded on use: pages that only read applicators do not carry the upload code.
+    const { sendWithProgress } = await import('@/lib/uploads');
+    return await sendWithProgress<T>('POST', path, csv, { onProgress, headers: { 'Content-Type': 'text/csv; charset=utf-8' } });
+  } catch (err) {
+    if (err instanceof ApiError && err.status === 0) throw new ApiError(0, 'network', 'The file could not be sent: no connection. Try again when you are back online.');
+    throw err;
   }
-  const body = await res.json().catch(() => ({}));
-  if (!res.ok) throw new ApiError(res.status, body?.error?.code ?? 'internal', body?.error?.message ?? `Import failed (${res.status})`, body?.error?.fields ?? {}, body?.error?.requestId, body?.error?.details);
-  return body as T;
 }
 
 export function usePreviewImport() {
   return useMutation({
-    mutationFn: (v: { kind: ImportKind; csv: string }) => postCsv<{ preview: ImportPreview }>(`/api/applicators/import/${v.kind}/preview`, v.csv).then((r) => r.preview),
+    mutationFn: (v: { kind: ImportKind; csv: string; onProgress?: (fraction: number) => void }) => postCsv<{ preview: ImportPreview }>(`/api/applicators/import/${v.kind}/preview`, v.csv, v.onProgress).then((r) => r.preview),
     meta: { inlineErrors: true },
   });
 }
@@ -176,7 +176,7 @@ export function usePreviewImport() {
 export function useCommitImport() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (v: { kind: ImportKind; csv: string; mode: ImportMode }) => postCsv<{ result: ImportResult }>(`/api/applicators/import/${v.kind}?mode=${v.mode}`, v.csv).then((r) => r.result),
+    mutationFn: (v: { kind: ImportKind; csv: string; mode: ImportMode; onProgress?: (fraction: number) => void }) => postCsv<{ result: ImportResult }>(`/api/applicators/import/${v.kind}?mode=${v.mode}`, v.csv, v.onProgress).then((r) => r.result),
     onSuccess: () => qc.invalidateQueries({ queryKey: assetKeys.all }),
     meta: { inlineErrors: true },
   });

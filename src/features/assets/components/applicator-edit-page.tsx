@@ -26,6 +26,7 @@ import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
 import { SelectField, TextField } from '@/components/ui/field';
 import { PageHeader } from '@/components/ui/page';
 import { useApplicator, useFields, useLines, useSaveApplicator } from '../api/assets';
+import { formatInteger } from '@/lib/format';
 
 type Form = Record<string, string>;
 
@@ -216,10 +217,10 @@ function EditForm({ current }: { current?: ApplicatorDetail }) {
         <TextField label="Cycles per minute" inputMode="decimal" value={f.cyclesPerMinute} onChange={set('cyclesPerMinute')} error={err('cyclesPerMinute')} />
         <TextField label="Running hours per day" inputMode="decimal" value={f.hoursPerDay} onChange={set('hoursPerDay')} error={err('hoursPerDay')} />
         <TextField label="Running days per week" inputMode="decimal" value={f.daysPerWeek} onChange={set('daysPerWeek')} error={err('daysPerWeek')} />
-        <TextField label="Seat interval (cycles)" inputMode="numeric" value={f.seatIntervalCycles} onChange={set('seatIntervalCycles')} error={err('seatIntervalCycles')} placeholder={`${DEFAULT_THRESHOLDS.seat.toLocaleString('en-GB')} (common practice)`} />
-        <TextField label="Needle interval (cycles)" inputMode="numeric" value={f.needleIntervalCycles} onChange={set('needleIntervalCycles')} error={err('needleIntervalCycles')} placeholder={`${DEFAULT_THRESHOLDS.needle.toLocaleString('en-GB')} (common practice)`} />
+        <TextField label="Seat interval (cycles)" inputMode="numeric" value={f.seatIntervalCycles} onChange={set('seatIntervalCycles')} error={err('seatIntervalCycles')} placeholder={`${formatInteger(DEFAULT_THRESHOLDS.seat)} (common practice)`} />
+        <TextField label="Needle interval (cycles)" inputMode="numeric" value={f.needleIntervalCycles} onChange={set('needleIntervalCycles')} error={err('needleIntervalCycles')} placeholder={`${formatInteger(DEFAULT_THRESHOLDS.needle)} (common practice)`} />
         {f.actuation === 'air-operated' ? (
-          <TextField label="Seals interval (cycles)" inputMode="numeric" value={f.sealsIntervalCycles} onChange={set('sealsIntervalCycles')} error={err('sealsIntervalCycles')} placeholder={`${DEFAULT_THRESHOLDS.seals.toLocaleString('en-GB')} (common practice)`} />
+          <TextField label="Seals interval (cycles)" inputMode="numeric" value={f.sealsIntervalCycles} onChange={set('sealsIntervalCycles')} error={err('sealsIntervalCycles')} placeholder={`${formatInteger(DEFAULT_THRESHOLDS.seals)} (common practice)`} />
         ) : null}
       </Section>
 

@@ -5,13 +5,14 @@ import { Link, useSearchParams } from 'react-router';
 import { APPLICATOR_STATUS_LABELS, APPLICATOR_STATUSES, ACTUATION_LABELS } from '@/shared/schemas/assets';
 import { useCan } from '@/lib/auth';
 import { Button, ButtonLink, buttonClass } from '@/components/ui/button';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, Notice } from '@/components/ui/feedback';
 import { SelectField, TextField } from '@/components/ui/field';
 import { PageHeader } from '@/components/ui/page';
 import { errorMessage } from '@/lib/api-client';
 import { useApplicators, useLines, useSites } from '../api/assets';
 import { cycles, longDate } from '../utils/format';
 import { StatusChip } from './status-chip';
+import { DownloadButton } from '@/components/ui/download-button';
 
 export function ExportLinks({ links }: { links: [string, string][] }) {
   return (
@@ -20,9 +21,9 @@ export function ExportLinks({ links }: { links: [string, string][] }) {
       <ul className="absolute right-0 z-20 mt-1 w-64 rounded-md border border-rule bg-paper-raised p-1 shadow-lg">
         {links.map(([label, href]) => (
           <li key={href}>
-            <a href={href} download className="flex min-h-11 items-center rounded px-3 font-semibold hover:bg-paper-sunk">
+            <DownloadButton href={href} fileName={href.split('/').filter(Boolean).slice(1).join('-')} className="flex min-h-11 w-full items-center rounded px-3 text-left font-semibold hover:bg-paper-sunk disabled:cursor-wait">
               {label}
-            </a>
+            </DownloadButton>
           </li>
         ))}
       </ul>
@@ -104,7 +105,7 @@ export function ApplicatorListPage() {
       </form>
 
       {list.isPending ? (
-        <LoadingBlock label="Loading applicators" />
+        <ListSkeleton label="Loading applicators" />
       ) : list.isError ? (
         <Notice tone="error" title="The applicators could not be loaded">{errorMessage(list.error)}</Notice>
       ) : list.data.applicators.length === 0 ? (

@@ -29,6 +29,7 @@ import { useAddReading, useApplicator, useRemoveReading, useRemoveServiceEvent, 
 import { cycles, days, exactCycles, longDate, withUnit } from '../utils/format';
 import { CounterChart } from './counter-chart';
 import { StatusChip } from './status-chip';
+import { formatInteger, formatNumber } from '@/lib/format';
 
 const PART_WORDS = { seat: 'Seat', needle: 'Needle', seals: 'Seals' } as const;
 
@@ -158,8 +159,8 @@ function StartWalk({ a }: { a: ApplicatorDetail }) {
 /** Days while they are countable on a calendar, then months, then years. */
 function span(d: number): string {
   if (d <= 60) return days(d);
-  if (d <= 730) return `${Math.round(d / 30.44)} months`;
-  return `${(d / 365.25).toLocaleString('en-GB', { maximumFractionDigits: d > 3650 ? 0 : 1 })} years`;
+  if (d <= 730) return `${formatInteger(d / 30.44)} months`;
+  return `${formatNumber(d / 365.25, { maximumFractionDigits: d > 3650 ? 0 : 1 })} years`;
 }
 
 function forecastWords(f: ForecastView): { head: string; tone: string } {

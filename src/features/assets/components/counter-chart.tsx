@@ -4,6 +4,7 @@ import { CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Too
 import type { ReadingView, ServiceEventView } from '@/shared/schemas/assets';
 import { palette } from '../../../../tailwind.config';
 import { longDate } from '../utils/format';
+import { formatMonth, formatNumber } from '@/lib/format';
 
 const time = (d: string) => Date.parse(`${d}T12:00:00Z`);
 
@@ -22,7 +23,7 @@ export function CounterChart({ readings, events }: { readings: ReadingView[]; ev
   const ticks = months.filter((_, i) => i % step === 0);
   return (
     <figure className="mt-3">
-      <div className="h-56 w-full" role="img" aria-label={`Lifetime cycles from ${longDate(readings[0].readOn)} to ${longDate(readings[readings.length - 1].readOn)}, rising to ${data[data.length - 1].millions.toFixed(1)} million cycles`}>
+      <div className="h-56 w-full" role="img" aria-label={`Lifetime cycles from ${longDate(readings[0].readOn)} to ${longDate(readings[readings.length - 1].readOn)}, rising to ${formatNumber(data[data.length - 1].millions, { maximumFractionDigits: 1 })} million cycles`}>
         <ResponsiveContainer width="100%" height="100%">
           <LineChart data={data} margin={{ top: 8, right: 12, bottom: 4, left: 0 }}>
             <CartesianGrid stroke={palette.rule.DEFAULT} strokeDasharray="3 3" />
@@ -32,7 +33,7 @@ export function CounterChart({ readings, events }: { readings: ReadingView[]; ev
               scale="time"
               domain={[first, last]}
               ticks={ticks}
-              tickFormatter={(t: number) => new Date(t).toLocaleDateString('en-GB', { month: 'short', year: '2-digit', timeZone: 'UTC' })}
+              tickFormatter={(t: number) => formatMonth(new Date(t), { timeZone: 'UTC' })}
               stroke={palette.ink.soft}
               fontSize={12}
               minTickGap={24}
@@ -41,11 +42,11 @@ export function CounterChart({ readings, events }: { readings: ReadingView[]; ev
               width={56}
               stroke={palette.ink.soft}
               fontSize={12}
-              tickFormatter={(v: number) => `${v.toLocaleString('en-GB', { maximumFractionDigits: 1 })} M`}
+              tickFormatter={(v: number) => `${formatNumber(v, { maximumFractionDigits: 1 })} M`}
             />
             <Tooltip
               labelFormatter={(t) => longDate(new Date(Number(t)).toISOString().slice(0, 10))}
-              formatter={(v) => [`${Number(v).toLocaleString('en-GB', { maximumFractionDigits: 2 })} million cycles`, 'Lifetime']}
+              formatter={(v) => [`${formatNumber(Number(v), { maximumFractionDigits: 2 })} million cycles`, 'Lifetime']}
             />
             {events
               .filter((e) => time(e.performedOn) >= first && time(e.performedOn) <= last)

@@ -5,9 +5,10 @@ import { Link } from 'react-router';
 import { ASSET_LIMITS, CSV_COLUMNS, IMPORT_KIND_LABELS, IMPORT_KINDS, type ImportKind, type ImportPreview, type ImportProblem, type ImportResult } from '@/shared/schemas/assets';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { Button, buttonClass } from '@/components/ui/button';
-import { Notice } from '@/components/ui/feedback';
+import { Notice, ProgressBar, StageList } from '@/components/ui/feedback';
 import { Card, PageHeader } from '@/components/ui/page';
 import { useCommitImport, usePreviewImport } from '../api/assets';
+import { formatInteger } from '@/lib/format';
 
 const MAX_MB = 40;
 const DELIMITER_WORDS: Record<string, string> = { ',': 'commas', ';': 'semicolons', '\t': 'tabs', '|': 'vertical bars' };
@@ -33,7 +34,7 @@ function Problems({ problems, more }: { problems: ImportProblem[]; more: number 
           ))}
         </tbody>
       </table>
-      {more ? <p className="px-2 py-1 text-sm text-ink-soft">…and {more.toLocaleString('en-GB')} more problems not listed.</p> : null}
+      {more ? <p className="px-2 py-1 text-sm text-ink-soft">…and {formatInteger(more)} more problems not listed.</p> : null}
     </div>
   );
 }
@@ -45,6 +46,8 @@ export function ImportPage() {
   const [result, setResult] = useState<ImportResult | null>(null);
   const input = useRef<HTMLInputElement>(null);
   const next = useRef<HTMLDivElement>(null);
+  // Share of the file sent for the running preview or import (1: the server has it and is working).
+  const [sent, setSent] = useState<number>(0);
   const preview = usePreviewImport();
   const commit = useCommitImport();
   const p: ImportPreview | undefined = preview.data;
@@ -74,7 +77,8 @@ export function ImportPage() {
       return;
     }
     setFile({ name: f.name, text });
-    preview.mutate({ kind, csv: text });
+    setSent(0);
+    preview.mutate({ kind, csv: text, onProgress: setSent });
   }
 
   const fileError = preview.error instanceof ApiError ? preview.error : null;
@@ -131,7 +135,7 @@ export function ImportPage() {
             </table>
           </div>
           <p className="mt-2 text-sm text-ink-soft">
-            Columns may come in any order and headers ignore case. Commas, semicolons or tabs between columns; dates as YYYY-MM-DD; yes or no for yes/no columns; up to {ASSET_LIMITS.importRows.toLocaleString('en-GB')} rows per file.
+            Columns may come in any order and headers ignore case. Commas, semicolons or tabs between columns; dates as YYYY-MM-DD; yes or no for yes/no columns; up to {formatInteger(ASSET_LIMITS.importRows)} rows per file.
           </p>
         </details>
         <a href={`/api/applicators/import/${kind}/template`} download className={buttonClass('secondary', 'mt-3')}>Download the template</a>
@@ -153,6 +157,12 @@ export function ImportPage() {
           }}
         />
         {file ? <p className="mt-2 text-sm">File: <span className="font-semibold">{file.name}</span></p> : null}
+        {preview.isPending ? (
+          <div className="mt-3 space-y-2" data-import-progress="preview">
+            <StageList label="Checking the file" stages={['Read the file on this device', 'Send it', 'Check every row']} current={sent < 1 ? 1 : 2} />
+            <ProgressBar label={sent < 1 ? 'Sending the file' : 'Checking every row'} value={sent < 1 ? sent : null} />
+          </div>
+        ) : null}
         {fileProblem ? <div className="mt-3"><Notice tone="error" title="The file cannot be imported">{fileProblem}</Notice></div> : null}
         {fileError ? (
           <div className="mt-3">
@@ -166,9 +176,9 @@ export function ImportPage() {
         <Card>
           <p className="mb-2 font-semibold">3. Check and import</p>
           <p>
-            {p.totalRows.toLocaleString('en-GB')} row{p.totalRows === 1 ? '' : 's'} read (columns separated by {DELIMITER_WORDS[p.delimiter] ?? p.delimiter}):{' '}
-            <span className="font-semibold text-fixed">{p.validRows.toLocaleString('en-GB')} ready</span>
-            {p.invalidRows ? <>, <span className="font-semibold text-danger">{p.invalidRows.toLocaleString('en-GB')} with problems</span></> : null}.
+            {formatInteger(p.totalRows)} row{p.totalRows === 1 ? '' : 's'} read (columns separated by {DELIMITER_WORDS[p.delimiter] ?? p.delimiter}):{' '}
+            <span className="font-semibold text-fixed">{formatInteger(p.validRows)} ready</span>
+            {p.invalidRows ? <>, <span className="font-semibold text-danger">{formatInteger(p.invalidRows)} with problems</span></> : null}.
           </p>
           {p.sample.length ? (
             <div className="mt-3 overflow-x-auto rounded-md border border-rule">
@@ -204,23 +214,29 @@ export function ImportPage() {
             </div>
           ) : commit.isError ? <div className="mt-3"><Notice tone="error" title={errorMessage(commit.error)} /></div> : null}
           <div className="mt-4 flex flex-wrap gap-2">
-            <Button disabled={p.invalidRows > 0 || p.validRows === 0} busy={commit.isPending && commit.variables?.mode === 'all-or-nothing'} onClick={() => commit.mutate({ kind, csv: file.text, mode: 'all-or-nothing' }, { onSuccess: setResult })}>
-              Import all {p.totalRows.toLocaleString('en-GB')} rows
+            <Button disabled={p.invalidRows > 0 || p.validRows === 0} busy={commit.isPending && commit.variables?.mode === 'all-or-nothing'} onClick={() => { setSent(0); commit.mutate({ kind, csv: file.text, mode: 'all-or-nothing', onProgress: setSent }, { onSuccess: setResult }); }}>
+              Import all {formatInteger(p.totalRows)} rows
             </Button>
             {p.invalidRows > 0 && p.validRows > 0 ? (
-              <Button variant="secondary" busy={commit.isPending && commit.variables?.mode === 'valid-only'} onClick={() => commit.mutate({ kind, csv: file.text, mode: 'valid-only' }, { onSuccess: setResult })}>
-                Import the {p.validRows.toLocaleString('en-GB')} valid rows only
+              <Button variant="secondary" busy={commit.isPending && commit.variables?.mode === 'valid-only'} onClick={() => { setSent(0); commit.mutate({ kind, csv: file.text, mode: 'valid-only', onProgress: setSent }, { onSuccess: setResult }); }}>
+                Import the {formatInteger(p.validRows)} valid rows only
               </Button>
             ) : null}
           </div>
+          {commit.isPending ? (
+            <div className="mt-3 space-y-2" data-import-progress="commit">
+              <StageList label="Importing" stages={['Send the file', commit.variables?.mode === 'valid-only' ? 'Import the valid rows' : 'Import every row, or none if one fails']} current={sent < 1 ? 0 : 1} />
+              <ProgressBar label={sent < 1 ? 'Sending the file' : 'Importing the rows'} value={sent < 1 ? sent : null} />
+            </div>
+          ) : null}
           {p.invalidRows > 0 ? <p className="mt-2 text-sm text-ink-soft">Fix the rows above in your file and choose it again, or import the valid rows only and deal with the rest later.</p> : null}
         </Card>
       ) : null}
 
       {result ? (
         <Card>
-          <Notice tone="ok" title={`Imported ${result.imported.toLocaleString('en-GB')} row${result.imported === 1 ? '' : 's'} of ${IMPORT_KIND_LABELS[result.kind].toLowerCase()}`}>
-            {result.skippedRows ? `${result.skippedRows.toLocaleString('en-GB')} row${result.skippedRows === 1 ? ' was' : 's were'} skipped; they are listed below.` : 'Every row was imported.'}
+          <Notice tone="ok" title={`Imported ${formatInteger(result.imported)} row${result.imported === 1 ? '' : 's'} of ${IMPORT_KIND_LABELS[result.kind].toLowerCase()}`}>
+            {result.skippedRows ? `${formatInteger(result.skippedRows)} row${result.skippedRows === 1 ? ' was' : 's were'} skipped; they are listed below.` : 'Every row was imported.'}
           </Notice>
           {result.skipped.length ? <div className="mt-3"><Problems problems={result.skipped} more={0} /></div> : null}
           <div className="mt-3 flex flex-wrap gap-2">

@@ -6,7 +6,7 @@ import QRCode from 'qrcode';
 import type { ApplicatorListItem } from '@/shared/schemas/assets';
 import { errorMessage } from '@/lib/api-client';
 import { Button } from '@/components/ui/button';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, Notice } from '@/components/ui/feedback';
 import { SelectField } from '@/components/ui/field';
 import { PageHeader } from '@/components/ui/page';
 import { useApplicators, useLines, useSites } from '../api/assets';
@@ -132,7 +132,7 @@ export function LabelsPage() {
         <p className="mt-2 text-sm text-ink-soft">The codes point to {origin}. Print from the address your colleagues’ phones reach Beadpath at.</p>
 
         {list.isPending ? (
-          <LoadingBlock />
+          <ListSkeleton label="Loading applicators" />
         ) : list.isError ? (
           <Notice tone="error" title="The applicators could not be loaded">{errorMessage(list.error)}</Notice>
         ) : all.length === 0 ? (

@@ -6,9 +6,9 @@ import { FIELD_TYPE_LABELS, FIELD_TYPES, type FieldView, type LineView, type Sit
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { useCan } from '@/lib/auth';
 import { showToast } from '@/lib/toasts';
-import { Button } from '@/components/ui/button';
+import { Button, ButtonLink } from '@/components/ui/button';
 import { Dialog } from '@/components/ui/dialog';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, Notice } from '@/components/ui/feedback';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Card, PageHeader } from '@/components/ui/page';
 import { useFields, useLines, useRemove, useSaveField, useSaveLine, useSaveSite, useSites } from '../api/assets';
@@ -51,11 +51,16 @@ export function SitesPage() {
         }
       />
       {sites.isPending || lines.isPending ? (
-        <LoadingBlock />
+        <ListSkeleton label="Loading sites and lines" rows={3} />
       ) : sites.isError ? (
         <Notice tone="error" title="The sites could not be loaded">{errorMessage(sites.error)}</Notice>
       ) : sites.data.length === 0 ? (
-        <EmptyState title="No site yet">{manage ? <p>Add the first site, then its lines; or import both from CSV files.</p> : <p>An admin or author adds the sites.</p>}</EmptyState>
+        <EmptyState
+          title="No site yet"
+          action={manage ? <><Button onClick={() => setEditing({ kind: 'site' })}>Add a site</Button><ButtonLink to="/applicators/import" variant="secondary">Import from CSV</ButtonLink></> : null}
+        >
+          {manage ? <p>Add the first site, then its lines; or import both from CSV files.</p> : <p>An admin or author adds the sites; ask them to add yours.</p>}
+        </EmptyState>
       ) : (
         <ul className="space-y-4">
           {sites.data.map((s) => {
@@ -80,7 +85,7 @@ export function SitesPage() {
                     {siteLines.map((l) => (
                       <li key={l.id} className="flex flex-wrap items-center justify-between gap-2 py-2">
                         <div>
-                          <Link to={`/applicators?siteId=${s.id}&lineId=${l.id}`} className="font-semibold text-amber-deep underline">{l.name}</Link>
+                          <Link to={`/applicators?siteId=${s.id}&lineId=${l.id}`} className="inline-flex min-h-11 items-center font-semibold text-amber-deep underline">{l.name}</Link>
                           <span className="block text-sm text-ink-soft">
                             {[l.area, l.contact ? `contact: ${l.contact}` : null, `${l.applicatorCount} applicator${l.applicatorCount === 1 ? '' : 's'}`].filter(Boolean).join(' · ')}
                           </span>
@@ -93,7 +98,7 @@ export function SitesPage() {
                         ) : null}
                       </li>
                     ))}
-                    {siteLines.length === 0 ? <li className="py-2 text-sm text-ink-soft">No lines yet.</li> : null}
+                    {siteLines.length === 0 ? <li className="py-2 text-sm text-ink-soft">No lines yet. {manage ? 'Add the first with “Add a line”; applicators are registered on a line.' : 'An admin or author adds them.'}</li> : null}
                   </ul>
                   {manage ? <Button variant="secondary" className="mt-2" onClick={() => setEditing({ kind: 'line', siteId: s.id })}>Add a line</Button> : null}
                 </Card>
@@ -107,12 +112,12 @@ export function SitesPage() {
         <h2 id="own-fields" className="text-2xl font-semibold">Your own applicator fields</h2>
         <p className="mb-3 max-w-prose text-ink-soft">Anything else your plants record on a valve (a coil’s resistance, where its spare kit is kept): each field has a name, a type and, for numbers, a unit.</p>
         {fields.isPending ? (
-          <LoadingBlock />
+          <ListSkeleton label="Loading your own fields" rows={2} />
         ) : fields.isError ? (
           <Notice tone="error" title="The fields could not be loaded">{errorMessage(fields.error)}</Notice>
         ) : (
           <>
-            {fields.data.length === 0 ? <p className="text-ink-soft">None yet.</p> : null}
+            {fields.data.length === 0 ? <p className="text-ink-soft">None yet. {manage ? 'Add one below when your plants record something the standard fields do not hold.' : 'An admin or author can add them.'}</p> : null}
             <ul className="divide-y divide-rule rounded-lg border border-rule bg-paper-raised">
               {fields.data.map((f) => (
                 <li key={f.id} className="flex flex-wrap items-center justify-between gap-2 px-3 py-2">

@@ -49,7 +49,7 @@ function CalculatorView({ calc }: { calc: CalculatorDeclaration }) {
   return (
     <div>
       <nav className="mb-3 text-sm">
-        <Link to={paths.calculators} className="font-semibold text-amber-deep underline">
+        <Link to={paths.calculators} className="inline-flex min-h-11 items-center font-semibold text-amber-deep underline">
           All calculators
         </Link>
       </nav>

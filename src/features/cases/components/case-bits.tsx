@@ -1,5 +1,6 @@
 // Small pieces every case page uses: status and priority badges, ages in words, places and callers.
 import { CASE_PRIORITY_LABELS, CASE_STATUS_LABELS, type CaseListItem, type CasePriority, type CaseStatus } from '@/shared/schemas/cases';
+import { formatDateTime } from '@/lib/format';
 
 // Colour is never the only signal: every badge carries its word.
 const STATUS_STYLE: Record<CaseStatus, string> = {
@@ -42,7 +43,7 @@ export function since(iso: string): string {
 }
 
 export function when(iso: string): string {
-  return new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+  return formatDateTime(iso);
 }
 
 export function placeOf(c: Pick<CaseListItem, 'site' | 'line' | 'applicator'>): string {

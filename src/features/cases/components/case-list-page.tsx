@@ -15,7 +15,7 @@ import {
 import { CASE_AGES, CASE_AGE_LABELS, CASE_SORTS, CASE_STATUSES, CASE_STATUS_LABELS, OPEN_CASE_STATUSES, type CaseListItem } from '@/shared/schemas/cases';
 import { useCan, useMe } from '@/lib/auth';
 import { ButtonLink, Button } from '@/components/ui/button';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, Notice } from '@/components/ui/feedback';
 import { inputClass } from '@/components/ui/field';
 import { Icon } from '@/components/ui/icons';
 import { PageHeader } from '@/components/ui/page';
@@ -230,7 +230,7 @@ export function CaseListPage() {
       </form>
 
       {list.isPending ? (
-        <LoadingBlock label="Loading cases" />
+        <ListSkeleton label="Loading cases" />
       ) : list.isError ? (
         <Notice tone="error" title="The cases could not be loaded">
           {errorMessage(list.error)} Reload the page to try again.

@@ -8,7 +8,7 @@ import { ApiError, errorMessage } from '@/lib/api-client';
 import { useMe } from '@/lib/auth';
 import { serverFieldErrors } from '@/lib/form-errors';
 import { showToast } from '@/lib/toasts';
-import { uploadFile } from '@/lib/uploads';
+import { percent, uploadFile } from '@/lib/uploads';
 import { NotFoundPage } from '@/components/errors/route-error';
 import { Button } from '@/components/ui/button';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
@@ -89,7 +89,8 @@ function NoteForm({ caseId }: { caseId: number }) {
   const add = useAddCaseNote(caseId);
   const [text, setText] = useState('');
   const [files, setFiles] = useState<{ id: string; name: string }[]>([]);
-  const [uploading, setUploading] = useState(false);
+  // null: nothing sending; otherwise the share of the file sent so far.
+  const [uploading, setUploading] = useState<number | null>(null);
   const [fields, setFields] = useState<Record<string, string>>({});
 
   function submit(e: FormEvent) {
@@ -125,7 +126,7 @@ function NoteForm({ caseId }: { caseId: number }) {
       ) : null}
       <div className="flex flex-wrap items-center gap-2">
         <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold">
-          {uploading ? 'Uploading…' : 'Attach a photo or file'}
+          <span aria-live="polite">{uploading !== null ? `Uploading… ${percent(uploading)}` : 'Attach a photo or file'}</span>
           <input
             type="file"
             className="sr-only"
@@ -133,19 +134,19 @@ function NoteForm({ caseId }: { caseId: number }) {
               const f = e.target.files?.[0];
               e.target.value = '';
               if (!f) return;
-              setUploading(true);
+              setUploading(0);
               try {
-                const up = await uploadFile(f);
+                const up = await uploadFile(f, { onProgress: setUploading });
                 setFiles((x) => [...x, { id: up.id, name: up.originalName }]);
               } catch (err) {
                 showToast(`The file was not attached: ${errorMessage(err)}`, 'error');
               } finally {
-                setUploading(false);
+                setUploading(null);
               }
             }}
           />
         </label>
-        <Button type="submit" busy={add.isPending} disabled={uploading || (!text.trim() && !files.length)}>
+        <Button type="submit" busy={add.isPending} disabled={uploading !== null || (!text.trim() && !files.length)}>
           Add note
         </Button>
       </div>
@@ -237,7 +238,7 @@ export function CasePage() {
   return (
     <div className="space-y-5">
       <div>
-        <Link to="/cases" className="text-sm font-semibold text-amber-deep underline">
+        <Link to="/cases" className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">
           All cases
         </Link>
         <p className="mt-2 text-sm text-ink-soft">

@@ -76,7 +76,7 @@ export function LogCallPage() {
   return (
     <form onSubmit={submit} noValidate className="mx-auto max-w-2xl space-y-6 pb-24 sm:pb-6">
       <div>
-        <Link to="/cases" className="text-sm font-semibold text-amber-deep underline">
+        <Link to="/cases" className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">
           All cases
         </Link>
         <h1 className="mt-2 text-2xl font-semibold sm:text-3xl">Log a call</h1>

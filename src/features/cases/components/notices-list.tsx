@@ -28,7 +28,7 @@ export function NoticesList() {
             <p className="mt-1 flex items-center justify-between gap-2 text-sm text-ink-soft">
               <span>{since(n.createdAt)}</span>
               {!n.readAt ? (
-                <button type="button" className="min-h-9 px-2 underline" onClick={() => read.mutate(n.id)}>
+                <button type="button" className="min-h-11 px-2 underline" onClick={() => read.mutate(n.id)}>
                   Mark as read
                 </button>
               ) : null}

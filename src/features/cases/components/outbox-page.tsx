@@ -5,7 +5,7 @@ import { useSearchParams } from 'react-router';
 import { MAIL_KIND_LABELS, MAIL_STATUSES, MAIL_STATUS_LABELS, type MailStatus, type OutboxItem } from '@/shared/schemas/cases';
 import { errorMessage } from '@/lib/api-client';
 import { Button } from '@/components/ui/button';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, LoadingBlock, Notice } from '@/components/ui/feedback';
 import { Card, PageHeader } from '@/components/ui/page';
 import { useOutbox, useOutboxMessage, useResend } from '../api/cases';
 import { when } from './case-bits';
@@ -160,7 +160,7 @@ export function OutboxPage() {
       <div className="grid gap-5 lg:grid-cols-[minmax(0,26rem)_1fr]">
         <div>
           {list.isPending ? (
-            <LoadingBlock label="Loading messages" />
+            <ListSkeleton label="Loading messages" />
           ) : list.isError ? (
             <Notice tone="error" title="The outbox could not be loaded">{errorMessage(list.error)}</Notice>
           ) : list.data.messages.length === 0 ? (

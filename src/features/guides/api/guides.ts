@@ -85,7 +85,10 @@ export function useGuideComparison(id: number, from: string, to: string, enabled
 export function useImportGuide() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (file: unknown) => api<GuideImportResult>('/api/guides/import', { method: 'POST', body: file }),
+    // Sent with upload progress: a guide file with many steps is large on a slow link.
+    // Loaded on use: pages that only read guides (home among them) do not carry the upload code.
+    mutationFn: async (v: { file: object; onProgress?: (fraction: number) => void }) =>
+      (await import('@/lib/uploads')).sendWithProgress<GuideImportResult>('POST', '/api/guides/import', v.file, { onProgress: v.onProgress }),
     onSuccess: () => qc.invalidateQueries({ queryKey: [...guideKeys.all, 'list'] }),
     meta: { inlineErrors: true },
   });

@@ -12,12 +12,13 @@ import { ApiError, errorMessage } from '@/lib/api-client';
 import { showToast } from '@/lib/toasts';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { Dialog } from '@/components/ui/dialog';
-import { EmptyState, LoadingBlock, Notice } from '@/components/ui/feedback';
+import { EmptyState, ListSkeleton, Notice, ProgressBar, StageList } from '@/components/ui/feedback';
 import { TextField } from '@/components/ui/field';
 import { PageHeader } from '@/components/ui/page';
 import { TagList } from '@/components/tags/tag-chips';
 import type { GuideListItem } from '@/shared/schemas/guides';
 import { useCreateGuide, useGuides, useImportGuide } from '../api/guides';
+import { formatDate } from '@/lib/format';
 
 const TABS = [
   { key: 'all', label: 'All' },
@@ -74,6 +75,7 @@ function ImportButton() {
   const navigate = useNavigate();
   const input = useRef<HTMLInputElement>(null);
   const [problems, setProblems] = useState<{ path: string; message: string }[] | null>(null);
+  const [sent, setSent] = useState(0);
   return (
     <>
       <Button variant="secondary" onClick={() => input.current?.click()} busy={imp.isPending}>Import a guide file</Button>
@@ -87,14 +89,16 @@ function ImportButton() {
           const file = e.target.files?.[0];
           e.target.value = '';
           if (!file) return;
-          let json: unknown;
+          let json: object;
           try {
             json = JSON.parse(await file.text());
+            if (!json || typeof json !== 'object') throw new Error('not an object');
           } catch {
             setProblems([{ path: '(file)', message: 'This file is not JSON. Export a guide from Beadpath and import that file.' }]);
             return;
           }
-          imp.mutate(json, {
+          setSent(0);
+          imp.mutate({ file: json, onProgress: setSent }, {
             onSuccess: (r) => {
               showToast(`Imported “${r.guide.draft?.meta.title ?? 'guide'}” as a draft${r.causesAdded.length ? `; new causes: ${r.causesAdded.join(', ')}` : ''}`, 'ok');
               navigate(`/guides/${r.guide.id}/edit`);
@@ -103,6 +107,12 @@ function ImportButton() {
           });
         }}
       />
+      <Dialog open={imp.isPending} title="Importing the guide" onClose={() => undefined}>
+        <div className="space-y-3" data-import-progress="guide">
+          <StageList label="Importing the guide" stages={['Read the file on this device', 'Send it', 'Check every step and keep it as a draft']} current={sent < 1 ? 1 : 2} />
+          <ProgressBar label={sent < 1 ? 'Sending the file' : 'Checking every step'} value={sent < 1 ? sent : null} />
+        </div>
+      </Dialog>
       <Dialog open={problems !== null} title="The file could not be imported" onClose={() => setProblems(null)}>
         <p className="mb-2">Nothing was imported. Fix these in the file and try again:</p>
         <ul className="max-h-80 space-y-1 overflow-y-auto text-sm">
@@ -167,11 +177,20 @@ export function GuideListPage() {
         </div>
       </form>
       {list.isPending ? (
-        <LoadingBlock label="Loading guides" />
+        <ListSkeleton label="Loading guides" />
       ) : list.isError ? (
         <Notice tone="error" title="Guides could not be loaded">{errorMessage(list.error)}</Notice>
       ) : list.data.length === 0 ? (
-        <EmptyState title="No guides here">{isAuthor ? 'Start one with “New guide”, or import a guide file from another site.' : 'No guide has been published yet.'}</EmptyState>
+        <EmptyState
+          title={params.get('q') || tag ? 'No guide matches' : 'No guides here'}
+          action={params.get('q') || tag ? <Button variant="secondary" onClick={() => { setQ(''); setParams(new URLSearchParams(tab === 'all' ? {} : { tab }), { replace: true }); }}>Clear the search</Button> : isAuthor ? <Button onClick={() => setCreating(true)}>New guide</Button> : <ButtonLink to="/search" variant="secondary">Search articles instead</ButtonLink>}
+        >
+          {params.get('q') || tag
+            ? 'Try fewer or other words, or another tag.'
+            : isAuthor
+              ? 'Start one with “New guide”, or import a guide file from another site.'
+              : 'No guide has been published yet. Articles may still help; ask an author to publish the guide you need.'}
+        </EmptyState>
       ) : (
         <ul className="space-y-3">
           {list.data.map((g) => {
@@ -181,7 +200,7 @@ export function GuideListPage() {
                 <div className="flex flex-wrap items-start justify-between gap-2">
                   <div>
                     <p className="text-sm font-semibold text-amber-deep">{g.symptom}</p>
-                    <h2 className="text-lg font-semibold"><Link to={`/guides/${g.id}`} className="hover:underline">{g.title}</Link></h2>
+                    <h2 className="text-lg font-semibold"><Link to={`/guides/${g.id}`} className="inline-flex min-h-11 items-center hover:underline">{g.title}</Link></h2>
                   </div>
                   {isAuthor ? <span className={`rounded px-2 py-0.5 text-xs font-semibold ${s.tone}`}>{s.text}</span> : null}
                 </div>
@@ -191,7 +210,7 @@ export function GuideListPage() {
                   {isAuthor && g.errorCount ? <span className="font-semibold text-danger-deep">{g.errorCount} to fix</span> : null}
                   {isAuthor && g.openFlagCount ? <span className="text-amber-deep">⚑ {g.openFlagCount} flagged steps</span> : null}
                   {isAuthor && g.walksNotFixed + g.walksFixedByOther ? <span>{g.walksNotFixed} not fixed · {g.walksFixedByOther} fixed another way</span> : null}
-                  {isAuthor && g.draftUpdatedAt ? <span>Changed {new Date(g.draftUpdatedAt).toLocaleDateString()}{g.draftUpdatedByName ? ` by ${g.draftUpdatedByName}` : ''}</span> : null}
+                  {isAuthor && g.draftUpdatedAt ? <span>Changed {formatDate(g.draftUpdatedAt)}{g.draftUpdatedByName ? ` by ${g.draftUpdatedByName}` : ''}</span> : null}
                 </div>
                 {!isAuthor && g.publishedVersion ? (
                   <div className="mt-3">

@@ -9,7 +9,8 @@ import { ApiError, errorMessage } from '@/lib/api-client';
 import { showToast } from '@/lib/toasts';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { Dialog } from '@/components/ui/dialog';
-import { LoadingBlock, Notice } from '@/components/ui/feedback';
+import { DownloadButton } from '@/components/ui/download-button';
+import { ListSkeleton, LoadingBlock, Notice } from '@/components/ui/feedback';
 import { TextField } from '@/components/ui/field';
 import { Card } from '@/components/ui/page';
 import { TagList } from '@/components/tags/tag-chips';
@@ -17,6 +18,7 @@ import { NotFoundPage } from '@/components/errors/route-error';
 import type { GuideDetail } from '@/shared/schemas/guides';
 import { useDiscardDraft, useGuide, useGuideAction, useGuideComparison, useGuideWalkOutcomes } from '../api/guides';
 import { StepKindBadge } from './step-kind';
+import { formatDate, formatDateTime } from '@/lib/format';
 
 function Compare({ guide }: { guide: GuideDetail }) {
   const numbers = guide.versions.map((v) => v.number);
@@ -59,7 +61,7 @@ function NotFixedWalks({ guideId }: { guideId: number }) {
     <Card>
       <h2 className="text-lg font-semibold">Walks that did not end in the guide’s fix</h2>
       {walks.isPending ? (
-        <LoadingBlock />
+        <ListSkeleton label="Loading walks" rows={3} />
       ) : misses.length === 0 ? (
         <p className="mt-1 text-ink-soft">None so far{walks.data?.length ? ` out of ${walks.data.length} finished walks` : ''}.</p>
       ) : (
@@ -72,7 +74,7 @@ function NotFixedWalks({ guideId }: { guideId: number }) {
                   {w.outcomeNote ? `: ${w.outcomeNote}` : ''}
                 </span>
                 <span className="text-sm text-ink-soft">
-                  v{w.versionNumber} · {w.userName ?? '—'}{w.line ? ` · ${w.line}` : ''} · {w.endedAt ? new Date(w.endedAt).toLocaleDateString() : ''}
+                  v{w.versionNumber} · {w.userName ?? '—'}{w.line ? ` · ${w.line}` : ''} · {w.endedAt ? formatDate(w.endedAt) : ''}
                 </span>
               </Link>
             </li>
@@ -98,7 +100,7 @@ function AuthorPanel({ guide }: { guide: GuideDetail }) {
     <Card className="no-print">
       <h2 className="text-lg font-semibold">State</h2>
       <p className="mt-1">
-        {guide.status === 'retired' ? 'Retired: no new walks start on it.' : guide.published ? `Version ${guide.published.number} is published${guide.published.publishedAt ? ` since ${new Date(guide.published.publishedAt).toLocaleDateString()}` : ''}.` : 'Not published yet.'}
+        {guide.status === 'retired' ? 'Retired: no new walks start on it.' : guide.published ? `Version ${guide.published.number} is published${guide.published.publishedAt ? ` since ${formatDate(guide.published.publishedAt)}` : ''}.` : 'Not published yet.'}
         {d ? ` A draft (version ${d.number}) is ${d.state === 'in_review' ? `waiting for review${d.submittedByName ? `, submitted by ${d.submittedByName}` : ''}` : 'being edited'}.` : ''}
       </p>
       {d ? (
@@ -120,9 +122,9 @@ function AuthorPanel({ guide }: { guide: GuideDetail }) {
         ) : null}
         {d?.state === 'in_review' && d.submittedById === me?.user.id ? <Button variant="secondary" busy={action.isPending} onClick={() => run('withdraw', 'Withdrawn from review')}>Withdraw to edit</Button> : null}
         {d && guide.published && d.state === 'draft' ? <Button variant="quiet" onClick={() => window.confirm('Throw away the draft? The published version stays.') && discard.mutate(undefined, { onSuccess: () => showToast('Draft discarded', 'ok') })}>Discard draft</Button> : null}
-        <a className="inline-flex min-h-11 items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold hover:bg-paper-sunk" href={`/api/guides/${guide.id}/export${guide.published ? '?version=published' : '?version=draft'}`} download>
+        <DownloadButton className="inline-flex min-h-11 items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold hover:bg-paper-sunk" href={`/api/guides/${guide.id}/export${guide.published ? '?version=published' : '?version=draft'}`} fileName={`guide-${guide.id}.json`}>
           Export file
-        </a>
+        </DownloadButton>
         {guide.status === 'active' ? (
           <Button variant="quiet" onClick={() => window.confirm('Retire this guide? No new walks will start on it; its history stays.') && run('retire', 'Guide retired')}>Retire</Button>
         ) : (
@@ -155,7 +157,7 @@ export function GuidePage() {
   const counts = v.content.steps.reduce<Record<string, number>>((m, s) => ({ ...m, [s.kind]: (m[s.kind] ?? 0) + 1 }), {});
   return (
     <div className="mx-auto max-w-4xl space-y-5">
-      <nav className="text-sm"><Link to="/guides" className="font-semibold text-amber-deep underline">All guides</Link></nav>
+      <nav className="text-sm"><Link to="/guides" className="inline-flex min-h-11 items-center font-semibold text-amber-deep underline">All guides</Link></nav>
       <header>
         <p className="font-semibold text-amber-deep">{v.meta.symptom}</p>
         <h1 className="text-3xl font-semibold">{v.meta.title}</h1>
@@ -165,7 +167,10 @@ export function GuidePage() {
           {Object.entries(counts).map(([k, n]) => <span key={k} className="inline-flex items-center gap-1"><StepKindBadge kind={k as keyof typeof STEP_KIND_LABELS} /> ×{n}</span>)}
         </p>
       </header>
-      {canWalk && g.published && g.status === 'active' ? <ButtonLink to={`/guides/${g.id}/walk`} className="w-full sm:w-auto">Start walk</ButtonLink> : null}
+      <div className="flex flex-wrap gap-2">
+        {canWalk && g.published && g.status === 'active' ? <ButtonLink to={`/guides/${g.id}/walk`} className="w-full sm:w-auto">Start walk</ButtonLink> : null}
+        {g.published ? <ButtonLink to={`/guides/${g.id}/print`} variant="secondary" className="w-full sm:w-auto">Print outline</ButtonLink> : null}
+      </div>
       {isAuthor ? <AuthorPanel guide={g} /> : null}
       {isAuthor && g.published ? <NotFixedWalks guideId={g.id} /> : null}
       {isAuthor && g.versions.length ? <Compare guide={g} /> : null}
@@ -174,7 +179,7 @@ export function GuidePage() {
           <h2 className="text-lg font-semibold">History</h2>
           <ul className="mt-2 space-y-1 text-sm">
             {g.events.slice(0, 20).map((e, i) => (
-              <li key={i}>{new Date(e.createdAt).toLocaleString()} · {e.kind.replace('_', ' ')}{e.versionNumber ? ` (version ${e.versionNumber})` : ''}{e.userName ? ` by ${e.userName}` : ''}{e.comment ? `: “${e.comment}”` : ''}</li>
+              <li key={i}>{formatDateTime(e.createdAt)} · {e.kind.replace('_', ' ')}{e.versionNumber ? ` (version ${e.versionNumber})` : ''}{e.userName ? ` by ${e.userName}` : ''}{e.comment ? `: “${e.comment}”` : ''}</li>
             ))}
           </ul>
         </Card>

@@ -10,6 +10,7 @@ import { Button } from '@/components/ui/button';
 import { inputClass } from '@/components/ui/field';
 import { RichTextEditor } from '@/components/rich-text/rich-text-editor';
 import { StepKindBadge } from './step-kind';
+import { formatDate } from '@/lib/format';
 
 type Step = DraftStep;
 type Kind = Step['kind'];
@@ -93,7 +94,7 @@ export function StepForm(props: StepFormProps) {
           <p className="font-semibold">Technicians flagged this step</p>
           <ul className="mt-1 space-y-1">
             {props.flags.map((f) => (
-              <li key={f.id}>“{f.comment}” — {f.userName ?? 'someone'}, {new Date(f.createdAt).toLocaleDateString()}</li>
+              <li key={f.id}>“{f.comment}” — {f.userName ?? 'someone'}, {formatDate(f.createdAt)}</li>
             ))}
           </ul>
         </div>

@@ -41,11 +41,12 @@ export function useSearch(p: SearchParams, enabled = true) {
   return useQuery({ ...searchQuery(p), enabled: enabled && (p.q.trim().length > 0 || Boolean(p.actuation || p.component || p.fluid)), placeholderData: keepPreviousData });
 }
 
-export function useSearchStatus() {
+/** The engine's state, every 5 s, or every `pollMs` while a rebuild is being followed. */
+export function useSearchStatus(pollMs = 5000) {
   return useQuery({
     queryKey: searchKeys.status(),
     queryFn: () => api<{ status: SearchAdminStatus }>('/api/admin/search').then((r) => r.status),
-    refetchInterval: 5000,
+    refetchInterval: pollMs,
   });
 }
 

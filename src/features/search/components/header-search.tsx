@@ -69,7 +69,7 @@ export function HeaderSearch() {
       >
         <label className="relative block">
           <span className="sr-only">Search guides and articles</span>
-          <Icon.search className="pointer-events-none absolute left-3 top-1/2 size-5 -translate-y-1/2 text-ink-faint" aria-hidden />
+          <Icon.search className="pointer-events-none absolute left-2 top-1/2 size-5 -translate-y-1/2 text-ink-faint" aria-hidden />
           <input
             ref={input}
             type="search"
@@ -94,7 +94,7 @@ export function HeaderSearch() {
             aria-controls={showPanel ? panelId : undefined}
             aria-expanded={showPanel}
             maxLength={200}
-            className="block min-h-11 w-full rounded-md border border-rule-strong bg-paper-raised pl-10 pr-3 text-base placeholder:text-ink-faint focus:border-amber"
+            className="block min-h-11 w-full rounded-md border border-rule-strong bg-paper-raised pl-8 pr-1 text-base placeholder:text-ink-faint focus:border-amber"
           />
         </label>
       </form>

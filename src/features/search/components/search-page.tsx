@@ -9,13 +9,14 @@ import { ApiError, errorMessage } from '@/lib/api-client';
 import { useTags } from '@/lib/tags';
 import { showToast } from '@/lib/toasts';
 import { Button } from '@/components/ui/button';
-import { LoadingBlock, Notice, Skeleton } from '@/components/ui/feedback';
+import { LoadingBlock, Notice, ProgressBar, Skeleton } from '@/components/ui/feedback';
 import { SelectField } from '@/components/ui/field';
 import { Icon } from '@/components/ui/icons';
 import { Card, PageHeader } from '@/components/ui/page';
 import { useReindex, useSaveSynonyms, useSearch, useSearchStatus, useSynonyms, type SearchParams } from '../api/search';
 import { useDebouncedValue } from '../hooks/use-debounced-value';
 import { CorrectedNote, GroupedResults, NothingFound } from './search-results';
+import { formatDateTime, formatInteger } from '@/lib/format';
 
 const ENGINE_LABELS: Record<SearchEngineName, string> = { postgres: 'PostgreSQL', meilisearch: 'Meilisearch' };
 const KINDS = [
@@ -195,24 +196,64 @@ function SynonymEditor() {
   );
 }
 
-const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString() : 'never');
-const kb = (bytes: number) => `${Math.round(bytes / 1024).toLocaleString()} kB`;
+const when = (iso: string | null) => (iso ? formatDateTime(iso) : 'never');
+const kb = (bytes: number) => `${formatInteger(bytes / 1024)} kB`;
+
+/** A rebuild being followed: how many items were queued and the most done so far. */
+interface Rebuild {
+  queued: number;
+  done: number;
+  finished: boolean;
+}
 
 export function SearchAdminPage() {
-  const status = useSearchStatus();
+  const [rebuild, setRebuild] = useState<Rebuild | null>(null);
+  const following = rebuild !== null && !rebuild.finished;
+  const status = useSearchStatus(following ? 1000 : 5000);
   const reindex = useReindex();
   const s = status.data;
+  const pending = s ? s.jobs.reduce((n, j) => n + j.pending, 0) : null;
+  // Progress from the queue: what was queued minus what still waits (never going backwards).
+  useEffect(() => {
+    if (!following || pending === null || status.isFetching) return;
+    setRebuild((r) => (r && !r.finished ? { ...r, done: Math.max(r.done, r.queued - pending), finished: pending === 0 } : r));
+  }, [following, pending, status.isFetching, status.dataUpdatedAt]);
   return (
     <div className="space-y-4">
       <PageHeader
         title="Search engine"
         lead="What answers searches, how much is indexed, and the queue that keeps it current."
         actions={
-          <Button variant="secondary" busy={reindex.isPending} onClick={() => reindex.mutate(undefined, { onSuccess: (r) => showToast(`${r.queued} items queued for indexing`, 'ok') })}>
+          <Button
+            variant="secondary"
+            busy={reindex.isPending || following}
+            onClick={() =>
+              reindex.mutate(undefined, {
+                onSuccess: (r) => {
+                  showToast(`${formatInteger(r.queued)} items queued for indexing`, 'ok');
+                  setRebuild({ queued: r.queued, done: 0, finished: r.queued === 0 });
+                },
+              })
+            }
+          >
             Rebuild the index
           </Button>
         }
       />
+      {rebuild ? (
+        <Card>
+          <div role="status" data-reindex-progress={rebuild.finished ? 'done' : 'running'}>
+            {rebuild.finished ? (
+              <p className="font-semibold text-fixed">✓ Index rebuilt: {formatInteger(rebuild.queued)} items indexed.</p>
+            ) : (
+              <ProgressBar
+                label={`Rebuilding the index: ${formatInteger(rebuild.done)} of ${formatInteger(rebuild.queued)} items`}
+                value={rebuild.queued ? rebuild.done / rebuild.queued : null}
+              />
+            )}
+          </div>
+        </Card>
+      ) : null}
       {status.isPending ? (
         <LoadingBlock label="Loading the engine's state" />
       ) : status.isError || !s ? (

@@ -3,6 +3,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { BatchResult, NoteResult, WalkDetail, WalkListItem, WalkSummary } from '@/shared/schemas/walks';
 import { api } from '@/lib/api-client';
+import { takeEarly } from '@/lib/early-fetch';
 import type { ApplicatorSpecs } from '@/shared/walks';
 
 export const walkKeys = {
@@ -20,7 +21,8 @@ export function useWalks(f: { mine?: '1'; status?: string; guideId?: string }) {
 export function useWalk(id: number, opts: { poll?: boolean } = {}) {
   return useQuery({
     queryKey: walkKeys.detail(id),
-    queryFn: () => api<{ walk: WalkDetail }>(`/api/walks/${id}`).then((r) => r.walk),
+    // The first read may already be on its way (started with the app when a walk's address is opened).
+    queryFn: () => (takeEarly<{ walk: WalkDetail }>(`/api/walks/${id}`) ?? api<{ walk: WalkDetail }>(`/api/walks/${id}`)).then((r) => r.walk),
     refetchInterval: opts.poll ? 3000 : false,
     enabled: id > 0,
   });

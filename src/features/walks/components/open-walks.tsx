@@ -2,6 +2,7 @@
 import { Link } from 'react-router';
 import { Skeleton } from '@/components/ui/feedback';
 import { useWalks } from '../api/walks';
+import { formatDateTime } from '@/lib/format';
 
 export function OpenWalks() {
   const walks = useWalks({ mine: '1', status: 'open' });
@@ -16,7 +17,7 @@ export function OpenWalks() {
             <Link to={`/walks/${w.id}`} className="flex min-h-14 flex-col justify-center rounded-lg border-2 border-amber-line bg-paper-raised px-4 py-2">
               <span className="font-semibold">{w.guideTitle}</span>
               <span className="text-sm text-ink-soft">
-                Step {w.pathLength}: {w.currentStepTitle ?? '—'}{w.line ? ` · ${w.line}` : ''} · {new Date(w.updatedAt).toLocaleString()}
+                Step {w.pathLength}: {w.currentStepTitle ?? '—'}{w.line ? ` · ${w.line}` : ''} · {formatDateTime(w.updatedAt)}
               </span>
             </Link>
           </li>

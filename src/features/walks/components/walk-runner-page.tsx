@@ -1,6 +1,6 @@
 // Walking a guide on a phone: one step per screen, cautions first, the answer in one tap, the
 // saved / waiting-to-send state always visible. Colleagues who open the walk see it live.
-import { useEffect, useState } from 'react';
+import { lazy, Suspense, useEffect, useRef, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router';
 import { useQuery } from '@tanstack/react-query';
 import { STEP_KIND_LABELS, type Step } from '@/shared/guides/schema';
@@ -10,16 +10,17 @@ import { api, ApiError, errorMessage } from '@/lib/api-client';
 import { useCan, useMe } from '@/lib/auth';
 import { showToast } from '@/lib/toasts';
 import { Button } from '@/components/ui/button';
-import { Dialog } from '@/components/ui/dialog';
-import { PhotoCaptureButton } from '@/components/ui/photo-capture';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
-import { inputClass } from '@/components/ui/field';
 import { NotFoundPage } from '@/components/errors/route-error';
-import { useAbandonWalk, useFlagStep, useWalk, useWalkApplicator } from '../api/walks';
+import { useWalk, useWalkApplicator } from '../api/walks';
 import { useWalkRunner } from '../hooks/use-walk-runner';
 import { AskView, CautionGate, FindingView, HandoffView, MeasureView, TryView } from './step-views';
 import { StepKindIcon } from './step-kind-icon';
 import { WalkPath } from './walk-path';
+
+const NoteDialog = lazy(() => import('./walk-dialogs').then((m) => ({ default: m.NoteDialog })));
+const FlagDialog = lazy(() => import('./walk-dialogs').then((m) => ({ default: m.FlagDialog })));
+const AbandonDialog = lazy(() => import('./walk-dialogs').then((m) => ({ default: m.AbandonDialog })));
 
 export function WalkRunnerPage() {
   const id = Number(useParams().id);
@@ -56,7 +57,10 @@ function Runner({ walk }: { walk: WalkDetail }) {
   const [noteOpen, setNoteOpen] = useState(false);
   const [flagOpen, setFlagOpen] = useState(false);
   const [abandonOpen, setAbandonOpen] = useState(false);
-  const abandon = useAbandonWalk(walk.id);
+  // Once opened, the dialogs stay mounted so a note typed and closed is still there.
+  const dialogsLoaded = useRef(false);
+  const dialogsWanted = noteOpen || flagOpen || abandonOpen || dialogsLoaded.current;
+  if (dialogsWanted) dialogsLoaded.current = true;
   const canRecordService = useCan('assets:record');
   const steps = walk.guide.content.steps as Step[];
   const state = run.state;
@@ -191,67 +195,15 @@ function Runner({ walk }: { walk: WalkDetail }) {
         </div>
       ) : null}
 
-      <NoteDialog open={noteOpen} onClose={() => setNoteOpen(false)} onSave={async (text, fileIds) => { await run.addNote(step.id, text, fileIds); showToast('Note kept', 'ok'); }} />
-      <FlagDialog open={flagOpen} onClose={() => setFlagOpen(false)} walkId={walk.id} stepId={step.id} />
-      <Dialog open={abandonOpen} title="Stop this walk?" onClose={() => setAbandonOpen(false)}>
-        <p>The walk is kept as stopped at this step, with what you recorded.</p>
-        <div className="mt-4 flex justify-end gap-2">
-          <Button variant="secondary" onClick={() => setAbandonOpen(false)}>Carry on</Button>
-          <Button variant="danger" busy={abandon.isPending} onClick={() => abandon.mutate(undefined, { onSuccess: () => navigate('/') })}>Stop the walk</Button>
-        </div>
-      </Dialog>
+      {/* The dialogs load on first use: the first view of a step does not wait for them. */}
+      {dialogsWanted ? (
+        <Suspense fallback={null}>
+          <NoteDialog open={noteOpen} onClose={() => setNoteOpen(false)} onSave={async (text, fileIds) => { await run.addNote(step.id, text, fileIds); showToast('Note kept', 'ok'); }} />
+          <FlagDialog open={flagOpen} onClose={() => setFlagOpen(false)} walkId={walk.id} stepId={step.id} />
+          <AbandonDialog open={abandonOpen} onClose={() => setAbandonOpen(false)} walkId={walk.id} onStopped={() => navigate('/')} />
+        </Suspense>
+      ) : null}
     </div>
-  );
-}
-
-function NoteDialog({ open, onClose, onSave }: { open: boolean; onClose: () => void; onSave: (text: string, fileIds: string[]) => Promise<void> }) {
-  const [text, setText] = useState('');
-  const [files, setFiles] = useState<{ id: string; url: string }[]>([]);
-  return (
-    <Dialog open={open} title="Note or photo" onClose={onClose}>
-      <div className="space-y-3">
-        <textarea aria-label="Note" className={inputClass} rows={3} value={text} onChange={(e) => setText(e.target.value)} placeholder="What you saw or did" />
-        <PhotoCaptureButton onAdded={(photo) => setFiles((x) => [...x, photo])} />
-        <div className="flex flex-wrap gap-2">{files.map((f) => <img key={f.id} src={f.url} alt="Photo added to the note" className="size-20 rounded object-cover" />)}</div>
-        <div className="flex justify-end gap-2">
-          <Button variant="secondary" onClick={onClose}>Cancel</Button>
-          <Button
-            disabled={!text.trim() && !files.length}
-            onClick={async () => {
-              await onSave(text.trim(), files.map((f) => f.id));
-              setText('');
-              setFiles([]);
-              onClose();
-            }}
-          >
-            Keep it
-          </Button>
-        </div>
-      </div>
-    </Dialog>
-  );
-}
-
-function FlagDialog({ open, onClose, walkId, stepId }: { open: boolean; onClose: () => void; walkId: number; stepId: string }) {
-  const flag = useFlagStep(walkId);
-  const [comment, setComment] = useState('');
-  return (
-    <Dialog open={open} title="What is wrong or unclear?" onClose={onClose}>
-      <form
-        className="space-y-3"
-        onSubmit={(e) => {
-          e.preventDefault();
-          flag.mutate({ stepId, comment }, { onSuccess: () => { setComment(''); onClose(); showToast('Thank you: the guide’s authors will see it', 'ok'); } });
-        }}
-      >
-        <textarea aria-label="Comment for the authors" className={inputClass} rows={3} value={comment} onChange={(e) => setComment(e.target.value)} placeholder="e.g. the reading was 40 Ω and no band fits" />
-        {flag.isError ? <Notice tone="error" title={errorMessage(flag.error)} /> : null}
-        <div className="flex justify-end gap-2">
-          <Button variant="secondary" onClick={onClose}>Cancel</Button>
-          <Button type="submit" disabled={!comment.trim()} busy={flag.isPending}>Send to the authors</Button>
-        </div>
-      </form>
-    </Dialog>
   );
 }
 

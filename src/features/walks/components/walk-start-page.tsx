@@ -52,7 +52,7 @@ export function WalkStartPage() {
   if (guide.isError || !guide.data.published) return <Notice tone="error" title="This guide cannot be walked">{guide.isError ? errorMessage(guide.error) : 'It has no published version yet.'}</Notice>;
   return (
     <form onSubmit={submit} className="mx-auto flex min-h-[70dvh] max-w-md flex-col">
-      <Link to={`/guides/${guideId}`} className="text-sm font-semibold text-amber-deep underline">About this guide</Link>
+      <Link to={`/guides/${guideId}`} className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">About this guide</Link>
       <p className="mt-3 font-semibold text-amber-deep">{guide.data.published.meta.symptom}</p>
       <h1 className="text-2xl font-semibold">{guide.data.published.meta.title}</h1>
       {onApplicator ? (

@@ -6,6 +6,7 @@ import { showToast } from '@/lib/toasts';
 import { Button } from '@/components/ui/button';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
 import { useWalkSummary } from '../api/walks';
+import { formatDateTime, formatTime } from '@/lib/format';
 
 export function WalkSummaryPage() {
   const id = Number(useParams().id);
@@ -30,8 +31,8 @@ export function WalkSummaryPage() {
         <p className="font-semibold text-amber-deep">{s.symptom}</p>
         <h1 className="text-2xl font-semibold">{s.guideTitle} <span className="text-base font-normal text-ink-soft">(version {s.versionNumber})</span></h1>
         <p className="mt-1 text-ink-soft">
-          {s.technician ?? 'Unknown'} · {[s.site, s.line, s.applicator && `valve ${s.applicator}`].filter(Boolean).join(', ') || 'place not given'} · started {new Date(s.startedAt).toLocaleString()}
-          {s.endedAt ? ` · ended ${new Date(s.endedAt).toLocaleString()}` : ''}
+          {s.technician ?? 'Unknown'} · {[s.site, s.line, s.applicator && `valve ${s.applicator}`].filter(Boolean).join(', ') || 'place not given'} · started {formatDateTime(s.startedAt)}
+          {s.endedAt ? ` · ended ${formatDateTime(s.endedAt)}` : ''}
         </p>
         <p className="mt-2 text-lg font-semibold">
           {s.status === 'open' ? 'Still open' : s.status === 'abandoned' ? 'Stopped before the end' : s.outcomeLabel ?? (s.ended === 'handoff' ? 'Handed off' : 'Ended')}
@@ -47,7 +48,7 @@ export function WalkSummaryPage() {
       <ol className="space-y-3">
         {s.steps.map((st) => (
           <li key={`${st.stepId}-${st.position}`} className="break-inside-avoid rounded-md border border-rule bg-paper-raised p-3">
-            <p className="text-xs font-semibold text-ink-soft">{st.position}. {st.kindLabel}{st.answeredAt ? ` · ${new Date(st.answeredAt).toLocaleTimeString()}` : ''}</p>
+            <p className="text-xs font-semibold text-ink-soft">{st.position}. {st.kindLabel}{st.answeredAt ? ` · ${formatTime(st.answeredAt)}` : ''}</p>
             <p className="font-semibold">{st.title}</p>
             {st.answer ? <p>{st.answer}</p> : null}
             {st.reading?.calculator?.computed ? (
@@ -57,7 +58,7 @@ export function WalkSummaryPage() {
             ) : null}
             {st.cautions.map((c) => (
               <p key={c.id} className="text-sm">
-                <span className="font-semibold text-danger-deep">Caution ({HAZARDS[c.hazard as Hazard] ?? c.hazard})</span>: {c.acknowledgedAt ? `acknowledged ${new Date(c.acknowledgedAt).toLocaleTimeString()}` : 'not acknowledged'}
+                <span className="font-semibold text-danger-deep">Caution ({HAZARDS[c.hazard as Hazard] ?? c.hazard})</span>: {c.acknowledgedAt ? `acknowledged ${formatTime(c.acknowledgedAt)}` : 'not acknowledged'}
               </p>
             ))}
             {st.notes.map((n, i) => (
