@@ -1,7 +1,6 @@
 // Builds the Express application from its dependencies; listening is index.ts's job, so tests
 // can drive the same app in-process.
 import compression from 'compression';
-import connectPgSimple from 'connect-pg-simple';
 import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
@@ -20,6 +19,7 @@ import { adminRoutes } from './modules/admin/admin.routes';
 import { createAdminService } from './modules/admin/admin.service';
 import { authRoutes, configurePassport } from './modules/auth/auth.routes';
 import { createAuthService } from './modules/auth/auth.service';
+import { createSessionStore } from './modules/auth/session-store';
 import { calculatorRoutes } from './modules/calculators/calculators.routes';
 import { floorRoutes, healthRoutes } from './modules/health/health.routes';
 import { settingsRoutes } from './modules/admin/settings.routes';
@@ -30,13 +30,13 @@ import { filesRoutes } from './modules/files/files.routes';
 import { createFilesService } from './modules/files/files.service';
 import { adminTagsRoutes, tagsRoutes } from './modules/tags/tags.routes';
 import { createTagsService } from './modules/tags/tags.service';
-import { localStorage } from './lib/storage';
+import { storageFor, type FileStorage } from './lib/storage';
 import { guidesRoutes } from './modules/guides/guides.routes';
 import { walksRoutes } from './modules/walks/walks.routes';
 import { searchRoutes, stopSearch } from './modules/search/search.routes';
 import { assetsRoutes } from './modules/assets/assets.routes';
 import { casesRoutes } from './modules/cases/cases.routes';
-import { insightsRoutes } from './modules/insights/insights.routes';
+import { createInsightsModule } from './modules/insights/insights.routes';
 import { createMailService, type MailService } from './modules/mail/mail.service';
 import { requestOriginContext } from './modules/mail/origin';
 
@@ -49,10 +49,12 @@ export interface AppDeps {
   clientDir?: string | null;
   /** Outgoing mail; by default one that starts its queue (and the local fake SMTP) on first use. */
   mail?: MailService;
+  /** Where upload bytes go; by default the configured one (S3 when S3_BUCKET is set, else the FILES_DIR folder). */
+  storage?: FileStorage;
 }
 
 export interface BeadpathApp extends Express {
-  locals: Express['locals'] & { routeTable: RouteInfo[]; filesDir: string; mail: MailService; close: () => Promise<void> };
+  locals: Express['locals'] & { routeTable: RouteInfo[]; filesDir: string; storage: FileStorage; mail: MailService; close: () => Promise<void> };
 }
 
 export const defaultClientDir = fileURLToPath(new URL('../dist', import.meta.url));
@@ -107,16 +109,17 @@ export function createApp(deps: AppDeps): BeadpathApp {
 
   const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 4 });
   sessionPool.on('error', (err) => logger.warn({ err }, 'session store connection lost'));
-  const PgStore = connectPgSimple(session);
-  const store = new PgStore({ pool: sessionPool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60, errorLog: (...args: unknown[]) => logger.warn({ detail: args.map(String).join(' ') }, 'session store error') });
+  const sessions = createSessionStore(sessionPool, logger);
+  const store = sessions.store;
   throttleTouch(store, 5 * 60 * 1000);
 
   const mail = deps.mail ?? createMailService({ db, config, logger });
   const auth = createAuthService(db, { mail, config });
   const tags = createTagsService(db);
   const filesDir = config.FILES_DIR ?? defaultFilesDir;
-  const files = createFilesService(db, localStorage(filesDir));
-  const passport = configurePassport(auth);
+  const storage = deps.storage ?? storageFor(config, defaultFilesDir);
+  const files = createFilesService(db, storage, logger);
+  const passport = configurePassport(auth, sessions);
   const api = express.Router();
   api.use(express.json({ limit: config.JSON_BODY_LIMIT }));
   api.use(sameOriginGuard(config.PUBLIC_ORIGIN));
@@ -138,6 +141,9 @@ export function createApp(deps: AppDeps): BeadpathApp {
   // Health answers before sessions are read, so it reports the database even when sessions cannot load.
   const health = healthRoutes({ db, version: deps.version ?? 'dev' });
   app.use(health.base, health.router);
+  // Insights summaries refresh through pg-boss jobs; started here except under tests, which start them when they need them.
+  const insights = createInsightsModule({ db, config, logger, mail });
+  if (config.NODE_ENV !== 'test') void insights.jobs.start().catch((err) => logger.error({ err }, 'the insights jobs could not start'));
   const routers: ApiRouter[] = [
     health,
     authRoutes({ auth, passport, loginLimit: config.LOGIN_RATE_LIMIT, resetLimit: config.RESET_RATE_LIMIT }),
@@ -155,7 +161,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
     ...searchRoutes({ db, config, logger }),
     ...assetsRoutes({ db, files }),
     ...casesRoutes({ db, config, logger, files, mail }),
-    ...insightsRoutes({ db, logger }),
+    ...insights.routers,
   ];
   app.use('/api', api);
   for (const r of routers) if (r !== health) app.use(r.base, r.router);
@@ -165,7 +171,22 @@ export function createApp(deps: AppDeps): BeadpathApp {
   const clientDir = deps.clientDir === undefined ? defaultClientDir : deps.clientDir;
   if (clientDir && existsSync(join(clientDir, 'index.html'))) {
     app.use('/assets', express.static(join(clientDir, 'assets'), { immutable: true, maxAge: '365d', index: false }));
-    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    // A hashed file from an older build is gone: a 404, never index.html, which a browser would try
+    // to run as a script and the offline worker would keep as that file.
+    app.use('/assets', (_req, res) => {
+      res.setHeader('Cache-Control', 'no-store');
+      res.status(404).type('text/plain').send('Not found');
+    });
+    app.use(
+      express.static(clientDir, {
+        index: false,
+        maxAge: '1h',
+        // The offline worker and the manifest decide what a phone keeps: always checked for a new build.
+        setHeaders: (res, path) => {
+          if (/[\\/](sw\.js|workbox-[^\\/]*\.js|manifest\.webmanifest)$/.test(path)) res.setHeader('Cache-Control', 'no-cache');
+        },
+      }),
+    );
     app.get('/{*splat}', (_req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
       res.sendFile(join(clientDir, 'index.html'));
@@ -174,8 +195,11 @@ export function createApp(deps: AppDeps): BeadpathApp {
 
   app.locals.routeTable = routers.flatMap((r) => r.routes);
   app.locals.filesDir = filesDir;
+  app.locals.storage = storage;
   app.locals.mail = mail;
+  app.locals.insights = insights;
   app.locals.close = async () => {
+    await insights.jobs.stop();
     // Messages still waiting stay in the outbox; the next start sends them.
     await mail.stop();
     await stopSearch(db);
