@@ -1,9 +1,8 @@
 // Attacks tried against the running app: SQL injection in every query parameter, cross-site
 // requests on every state-changing route, sign-in lock-outs that do not reveal accounts, path
 // traversal in upload names and file routes, and a decompression bomb. Each gets a 4xx and changes nothing.
-import { existsSync, readdirSync, statSync } from 'node:fs';
+import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
-import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { deflateSync } from 'node:zlib';
 import sharp from 'sharp';

@@ -1,8 +1,7 @@
 // Every migration can be undone: all up, all down, all up again on an empty database.
 import { randomBytes } from 'node:crypto';
 import pg from 'pg';
-import { describe, expect, it } from 'vitest';
-import { inject } from 'vitest';
+import { describe, expect, inject, it } from 'vitest';
 import { register } from 'tsx/esm/api';
 import { createDb, migrationsDir } from '../../server/db/knex';
 

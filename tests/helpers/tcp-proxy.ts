@@ -1,7 +1,6 @@
 // A TCP relay between the app and PostgreSQL that a test can cut and restore, to act out the
 // database going away and coming back.
-import { createServer, connect, type Server, type Socket } from 'node:net';
-import type { AddressInfo } from 'node:net';
+import { createServer, connect, type AddressInfo, type Server, type Socket } from 'node:net';
 
 export interface TcpProxy {
   port: number;

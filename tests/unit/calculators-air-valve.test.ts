@@ -2,7 +2,7 @@
 // seat and friction, and free-air consumption including tubing.
 import { describe, expect, it } from 'vitest';
 import { all, create } from 'mathjs';
-import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
+import { runCalculator } from '@/shared/calculators';
 import { annulusArea, circleArea } from '@/shared/calculators/air-piston-force';
 import { ISO_8778_ATMOSPHERE, STANDARD_ATMOSPHERE, freeAirPerCycle } from '@/shared/calculators/air-consumption';
 import { CalculatorInputError } from '@/shared/calculators/types';

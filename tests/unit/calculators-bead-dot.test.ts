@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { all, create } from 'mathjs';
-import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
+import { runCalculator } from '@/shared/calculators';
 import { beadArea, concaveFilletArea } from '@/shared/calculators/bead';
 import { capHeightFromContactAngle, sphericalCapVolume } from '@/shared/calculators/dot';
 import { CalculatorInputError } from '@/shared/calculators/types';

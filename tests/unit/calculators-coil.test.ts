@@ -2,7 +2,7 @@
 // winding temperature by the resistance method and the open/short verdicts.
 import { describe, expect, it } from 'vitest';
 import { all, create } from 'mathjs';
-import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
+import { runCalculator } from '@/shared/calculators';
 import { COPPER_ALPHA_20, resistanceAt } from '@/shared/calculators/coil-check';
 import { hotTemperatureCelsius } from '@/shared/calculators/coil-temperature';
 import { CalculatorInputError } from '@/shared/calculators/types';

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { all, create } from 'mathjs';
-import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
+import { runCalculator } from '@/shared/calculators';
 import { crossoverLift, curtainArea, curtainAreaApprox } from '@/shared/calculators/needle-lift';
 import { expectRel, expectPrinted, q, out } from '../helpers/calc';
 

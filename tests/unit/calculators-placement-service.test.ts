@@ -1,7 +1,7 @@
 // Placement drift (calculators.md §8) and cycle-count service forecast (§9).
 import { describe, expect, it } from 'vitest';
 import { all, create } from 'mathjs';
-import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
+import { runCalculator } from '@/shared/calculators';
 import { distanceCompensationError } from '@/shared/calculators/placement-drift';
 import { DEFAULT_THRESHOLDS, serviceForecast } from '@/shared/calculators/service-forecast';
 import { CalculatorInputError } from '@/shared/calculators/types';

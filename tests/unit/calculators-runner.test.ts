@@ -7,7 +7,6 @@ import {
   getCalculator,
   listCalculators,
   runCalculator,
-  type CalculatorResponse,
 } from '@/shared/calculators';
 import { CalculatorInputError, UnknownCalculatorError } from '@/shared/calculators/types';
 import { UNITS, isQuantityKind, isUnitOf } from '@/shared/units';

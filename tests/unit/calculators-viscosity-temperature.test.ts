@@ -2,7 +2,7 @@
 // water table, the kelvin-only trap, and a least-squares fit cross-checked with simple-statistics.
 import { describe, expect, it } from 'vitest';
 import { linearRegression } from 'simple-statistics';
-import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
+import { runCalculator } from '@/shared/calculators';
 import { GAS_CONSTANT, andradeFit, andradeFitLeastSquares, andradeViscosity } from '@/shared/calculators/viscosity-temperature';
 import { CalculatorInputError } from '@/shared/calculators/types';
 import { expectRel, expectPrinted, q, out, catchError } from '../helpers/calc';

@@ -5,7 +5,7 @@ import fc from 'fast-check';
 import { linearRegression } from 'simple-statistics';
 import weibullQuantileStdlib from '@stdlib/stats-base-dists-weibull-quantile';
 import weibullCdfStdlib from '@stdlib/stats-base-dists-weibull-cdf';
-import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
+import { runCalculator } from '@/shared/calculators';
 import {
   benardMedianRank,
   conditionalReliability,
