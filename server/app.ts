@@ -38,7 +38,6 @@ import { assetsRoutes } from './modules/assets/assets.routes';
 import { casesRoutes } from './modules/cases/cases.routes';
 import { createInsightsModule } from './modules/insights/insights.routes';
 import { createMailService, type MailService } from './modules/mail/mail.service';
-import { requestOriginContext } from './modules/mail/origin';
 
 export interface AppDeps {
   db: Knex;
@@ -136,7 +135,6 @@ export function createApp(deps: AppDeps): BeadpathApp {
   );
   api.use(passport.initialize());
   api.use(passport.session());
-  api.use(requestOriginContext());
 
   // Health answers before sessions are read, so it reports the database even when sessions cannot load.
   const health = healthRoutes({ db, version: deps.version ?? 'dev' });

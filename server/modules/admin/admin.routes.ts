@@ -1,4 +1,5 @@
 // /api/admin: users of the organisation (admins only).
+import { originOf } from '../mail/origin';
 import { InviteUserInput, IdParam, UpdateUserInput } from '../../../src/shared/schemas/auth';
 import { ApiRouter } from '../../lib/routes';
 import { validate } from '../../lib/validate';
@@ -12,7 +13,7 @@ export function adminRoutes(deps: { admin: ReturnType<typeof createAdminService>
   });
 
   r.post('/users', 'users:manage', validate('body', InviteUserInput), async (req, res) => {
-    const out = await deps.admin.invite(req.user!.organisationId, res.locals.body, req.user!.id);
+    const out = await deps.admin.invite(req.user!.organisationId, res.locals.body, req.user!.id, originOf(req));
     res.status(201).json(out);
   });
 
@@ -21,7 +22,7 @@ export function adminRoutes(deps: { admin: ReturnType<typeof createAdminService>
   });
 
   r.post('/users/:id/invite', 'users:manage', validate('params', IdParam), async (req, res) => {
-    res.json(await deps.admin.reissueInvite(req.user!.organisationId, res.locals.params.id, req.user!.id));
+    res.json(await deps.admin.reissueInvite(req.user!.organisationId, res.locals.params.id, req.user!.id, originOf(req)));
   });
 
   return r;

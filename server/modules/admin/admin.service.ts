@@ -45,7 +45,7 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
   }
 
   /** The invitation e-mail, written in the same transaction as the token it carries. */
-  async function recordInvitation(trx: Knex, user: UserRecord, token: string): Promise<number | null> {
+  async function recordInvitation(trx: Knex, user: UserRecord, token: string, origin?: string): Promise<number | null> {
     if (!mailer) return null;
     return mailer.mail.record(trx, {
       organisationId: user.organisationId,
@@ -57,7 +57,7 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
         email: user.email,
         invitedBy: null,
         roles: user.roles.map((r) => ROLE_LABELS[r]),
-        link: `${linkOrigin(mailer.config)}/invite/${token}`,
+        link: `${linkOrigin(mailer.config, origin)}/invite/${token}`,
         days: INVITE_DAYS,
       }),
       fromName: user.organisationName,
@@ -73,7 +73,7 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
       return (await usersRepository.listByOrganisation(db, organisationId)).map(view);
     },
 
-    async invite(organisationId: number, input: InviteUserInput, actorId: number | null = null) {
+    async invite(organisationId: number, input: InviteUserInput, actorId: number | null = null, origin?: string) {
       const invite = newInviteToken();
       const out = await db.transaction(async (trx) => {
         if (await usersRepository.findByEmail(trx, input.email)) {
@@ -89,14 +89,14 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
         });
         const user = (await usersRepository.findById(trx, id))!;
         await audit(trx, { organisationId, userId: actorId, action: 'user.invite', entityKind: 'user', entityId: id, after: { email: user.email, roles: user.roles } });
-        const mailId = await recordInvitation(trx, user, invite.token);
+        const mailId = await recordInvitation(trx, user, invite.token, origin);
         return { user: view(user), inviteToken: invite.token, emailed: mailId !== null, mailId };
       });
       send(out.mailId);
       return { user: out.user, inviteToken: out.inviteToken, emailed: out.emailed };
     },
 
-    async reissueInvite(organisationId: number, id: number, actorId: number | null = null) {
+    async reissueInvite(organisationId: number, id: number, actorId: number | null = null, origin?: string) {
       const invite = newInviteToken();
       const out = await db.transaction(async (trx) => {
         const user = await inOrg(trx, organisationId, id);
@@ -104,7 +104,7 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
         await usersRepository.update(trx, id, { invite_token_hash: invite.hash, invite_expires_at: invite.expiresAt });
         const fresh = (await usersRepository.findById(trx, id))!;
         await audit(trx, { organisationId, userId: actorId, action: 'user.reinvite', entityKind: 'user', entityId: id, after: { email: fresh.email } });
-        const mailId = await recordInvitation(trx, fresh, invite.token);
+        const mailId = await recordInvitation(trx, fresh, invite.token, origin);
         return { user: view(fresh), inviteToken: invite.token, emailed: mailId !== null, mailId };
       });
       send(out.mailId);

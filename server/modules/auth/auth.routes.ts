@@ -1,4 +1,5 @@
 // /api/auth: sign in and out, who am I, own password and preferences, accepting an invitation.
+import { originOf } from '../mail/origin';
 import type { NextFunction, Request, Response } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import passport from 'passport';
@@ -129,7 +130,7 @@ export function authRoutes(deps: { auth: AuthService; passport: passport.Authent
     // Answered before any lookup, so the time taken says nothing about the address either.
     res.status(202).json({ message: RESET_ANSWER });
     try {
-      await deps.auth.requestPasswordReset(res.locals.body.email);
+      await deps.auth.requestPasswordReset(res.locals.body.email, originOf(req));
     } catch (err) {
       req.log?.error({ err }, 'password reset request failed');
     }

@@ -125,12 +125,12 @@ export function createAuthService(db: Knex, mailer?: { mail: MailService; config
      * Sends a reset link when the address belongs to an active account and does nothing otherwise;
      * the caller answers the same either way, so nobody learns which addresses have accounts.
      */
-    async requestPasswordReset(email: string): Promise<void> {
+    async requestPasswordReset(email: string, origin?: string): Promise<void> {
       if (!mailer) throw new Error('password reset needs the mail service');
       const user = await usersRepository.findByEmail(db, email);
       if (!user || !user.active) return;
       const reset = newResetToken();
-      const link = `${linkOrigin(mailer.config)}/reset-password?token=${reset.token}`;
+      const link = `${linkOrigin(mailer.config, origin)}/reset-password?token=${reset.token}`;
       const id = await db.transaction(async (trx) => {
         await passwordResetsRepository.insert(trx, user.id, reset.hash, reset.expiresAt);
         return mailer.mail.record(trx, {

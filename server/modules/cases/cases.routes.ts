@@ -1,5 +1,6 @@
 // /api/cases (the support desk's cases), /api/notices (in-app notices of hand-offs and
 // assignments) and /api/admin/outbox (every e-mail, for admins).
+import { originOf } from '../mail/origin';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import {
@@ -75,7 +76,7 @@ export function casesRoutes(deps: CasesDeps): ApiRouter[] {
   });
 
   r.post('/:id/handoff', 'cases:work', id, validate('body', CaseHandoffInput), async (req, res) => {
-    res.json({ case: await s.handoff(req.user!, res.locals.params.id, res.locals.body) });
+    res.json({ case: await s.handoff(req.user!, res.locals.params.id, res.locals.body, originOf(req)) });
   });
 
   r.get('/:id/summary', 'cases:work', id, validate('query', CaseSummaryQuery), async (req, res) => {

@@ -354,10 +354,10 @@ export function createCasesService(deps: CasesServiceDeps) {
       });
     },
 
-    async handoff(user: SessionUser, id: number, input: CaseHandoffInput): Promise<CaseDetail> {
+    async handoff(user: SessionUser, id: number, input: CaseHandoffInput, requestOrigin?: string): Promise<CaseDetail> {
       // The walk's record is read first, in its own snapshot: it only grows, never changes.
       const walk = input.walkId !== null ? await walkRecord(user, input.walkId) : null;
-      const origin = linkOrigin(deps.config);
+      const origin = linkOrigin(deps.config, requestOrigin);
       const messageIds: number[] = [];
       const out = await db.transaction(async (trx) => {
         const c = await mustFind(trx, user, id, true);
