@@ -92,7 +92,9 @@ async function main() {
   console.log(`JavaScript per page, gzip (budget ${BUDGET_KB} KB):`);
   for (const p of pages) {
     const mark = p.gzipBytes / 1024 > BUDGET_KB ? '  OVER BUDGET' : '';
-    console.log(`  ${p.name.padEnd(12)} ${p.path.padEnd(11)} ${kb(p.gzipBytes).padStart(6)} KB gzip  ${kb(p.rawBytes).padStart(7)} KB raw  ${p.files.length} files  (+${kb(p.afterRenderGzipBytes)} KB after render)${mark}`);
+    console.log(
+      `  ${p.name.padEnd(12)} ${p.path.padEnd(11)} ${kb(p.gzipBytes).padStart(6)} KB gzip  ${kb(p.rawBytes).padStart(7)} KB raw  ${p.files.length} files  (+${kb(p.afterRenderGzipBytes)} KB after render)${mark}`,
+    );
   }
   const largest = pages.reduce((a, b) => (b.gzipBytes > a.gzipBytes ? b : a));
   console.log(`Largest page bundle: ${largest.name}, ${kb(largest.gzipBytes)} KB gzip (${largest.files.join(', ')})`);

@@ -26,14 +26,22 @@ const days = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().
 /** The answer without its freshness stamp and with keys in one order (stored answers come back from jsonb). */
 function canonical(v: unknown): unknown {
   if (Array.isArray(v)) return v.map(canonical);
-  if (v && typeof v === 'object') return Object.fromEntries(Object.keys(v).filter((k) => k !== 'asOf').sort().map((k) => [k, canonical((v as Record<string, unknown>)[k])]));
+  if (v && typeof v === 'object')
+    return Object.fromEntries(
+      Object.keys(v)
+        .filter((k) => k !== 'asOf')
+        .sort()
+        .map((k) => [k, canonical((v as Record<string, unknown>)[k])]),
+    );
   return v;
 }
 
 async function seed(db: Db): Promise<number> {
   const [org] = await db('organisations').insert({ name: 'Bench works' }).returning('id');
   const o = org.id as number;
-  const [user] = await db('users').insert({ organisation_id: o, email: 'bench@example.com', name: 'Bench', roles: ['manager'] }).returning('id');
+  const [user] = await db('users')
+    .insert({ organisation_id: o, email: 'bench@example.com', name: 'Bench', roles: ['manager'] })
+    .returning('id');
   await db.raw(`insert into causes (organisation_id, code, label) select ?, 'cause-' || i, 'Cause ' || i from generate_series(1, ?) i`, [o, CAUSES]);
   await db.raw(`insert into sites (organisation_id, name) select ?, 'Site ' || i from generate_series(1, 10) i`, [o]);
   await db.raw(`insert into lines (organisation_id, site_id, name) select s.organisation_id, s.id, 'Line ' || i from sites s cross join generate_series(1, 5) i where s.organisation_id = ?`, [o]);
@@ -55,10 +63,7 @@ async function seed(db: Db): Promise<number> {
        from applicators a cross join generate_series(0, 24) m where a.organisation_id = ?`,
     [o],
   );
-  await db.raw(
-    `insert into guides (organisation_id, status) select ?, 'active' from generate_series(1, ?)`,
-    [o, GUIDES],
-  );
+  await db.raw(`insert into guides (organisation_id, status) select ?, 'active' from generate_series(1, ?)`, [o, GUIDES]);
   await db.raw(
     `insert into guide_versions (guide_id, number, state, title, symptom, content, published_at)
      select id, 1, 'published', 'Guide ' || id, 'Symptom ' || id,
@@ -109,7 +114,9 @@ async function main() {
     console.log(`Database ${dbName} in the test cluster (port ${cluster.port}).`);
     await migrateLatest(db);
     const organisationId = reuse ? ((await db('organisations').where({ name: 'Bench works' }).first('id')).id as number) : await seed(db);
-    const counts = await db.raw(`select (select count(*) from walks) as walks, (select count(*) from service_events) as services, (select count(*) from applicators) as applicators, (select count(*) from counter_readings) as readings`);
+    const counts = await db.raw(
+      `select (select count(*) from walks) as walks, (select count(*) from service_events) as services, (select count(*) from applicators) as applicators, (select count(*) from counter_readings) as readings`,
+    );
     const c = counts.rows[0];
     console.log(`${c.walks} walks, ${c.services} service events, ${c.applicators} applicators, ${c.readings} counter readings`);
     const s = createInsightsService({ db });
@@ -121,15 +128,35 @@ async function main() {
     const site = await db('sites').where({ organisation_id: organisationId }).first('id');
     const cases: [string, () => Promise<unknown>, () => Promise<unknown>][] = [
       ['causes: a year, all, repeats within 90 d, by month', () => s.causes(user, CausesQuery.parse({})), () => s.exact.causes(organisationId, CausesQuery.parse({}))],
-      ['causes: 6 months, all, repeats within 30 d, by week', () => s.causes(user, CausesQuery.parse({ from: days(-182), repeatDays: 30, bucket: 'week' })), () => s.exact.causes(organisationId, CausesQuery.parse({ from: days(-182), repeatDays: 30, bucket: 'week' }))],
-      ['causes: a year, one site, electric, by week', () => s.causes(user, CausesQuery.parse({ siteId: site.id, actuation: 'electric', bucket: 'week' })), () => s.exact.causes(organisationId, CausesQuery.parse({ siteId: site.id, actuation: 'electric', bucket: 'week' }))],
-      ['causes: two years, one guide', () => s.causes(user, CausesQuery.parse({ guideId: 1, from: days(-730) })), () => s.exact.causes(organisationId, CausesQuery.parse({ guideId: 1, from: days(-730) }))],
+      [
+        'causes: 6 months, all, repeats within 30 d, by week',
+        () => s.causes(user, CausesQuery.parse({ from: days(-182), repeatDays: 30, bucket: 'week' })),
+        () => s.exact.causes(organisationId, CausesQuery.parse({ from: days(-182), repeatDays: 30, bucket: 'week' })),
+      ],
+      [
+        'causes: a year, one site, electric, by week',
+        () => s.causes(user, CausesQuery.parse({ siteId: site.id, actuation: 'electric', bucket: 'week' })),
+        () => s.exact.causes(organisationId, CausesQuery.parse({ siteId: site.id, actuation: 'electric', bucket: 'week' })),
+      ],
+      [
+        'causes: two years, one guide',
+        () => s.causes(user, CausesQuery.parse({ guideId: 1, from: days(-730) })),
+        () => s.exact.causes(organisationId, CausesQuery.parse({ guideId: 1, from: days(-730) })),
+      ],
       ['forecast: next 90 days, all sites', () => s.forecast(user, ForecastQuery.parse({})), () => s.exact.forecast(organisationId, ForecastQuery.parse({}))],
-      ['forecast: next 30 days, one site', () => s.forecast(user, ForecastQuery.parse({ days: 30, siteId: site.id })), () => s.exact.forecast(organisationId, ForecastQuery.parse({ days: 30, siteId: site.id }))],
+      [
+        'forecast: next 30 days, one site',
+        () => s.forecast(user, ForecastQuery.parse({ days: 30, siteId: site.id })),
+        () => s.exact.forecast(organisationId, ForecastQuery.parse({ days: 30, siteId: site.id })),
+      ],
       ['guides: a year, every version', () => s.guides(user, GuidesQuery.parse({})), () => s.exact.guides(organisationId, GuidesQuery.parse({}))],
       ['reliability: seat', () => s.reliability(user, ReliabilityQuery.parse({ part: 'seat' })), () => s.exact.reliability(organisationId, ReliabilityQuery.parse({ part: 'seat' }))],
       ['reliability: seals (air-operated)', () => s.reliability(user, ReliabilityQuery.parse({ part: 'seals' })), () => s.exact.reliability(organisationId, ReliabilityQuery.parse({ part: 'seals' }))],
-      ['reliability: needle, electric', () => s.reliability(user, ReliabilityQuery.parse({ part: 'needle', actuation: 'electric' })), () => s.exact.reliability(organisationId, ReliabilityQuery.parse({ part: 'needle', actuation: 'electric' }))],
+      [
+        'reliability: needle, electric',
+        () => s.reliability(user, ReliabilityQuery.parse({ part: 'needle', actuation: 'electric' })),
+        () => s.exact.reliability(organisationId, ReliabilityQuery.parse({ part: 'needle', actuation: 'electric' })),
+      ],
     ];
     console.log(`\n${'query'.padEnd(52)}  median ms    max ms  exact ms  same answer (${RUNS} runs after one warm-up)`);
     const missed: string[] = [];
@@ -165,7 +192,9 @@ async function main() {
     );
     t = performance.now();
     const walksOnly = await s.refresh(organisationId);
-    console.log(`\nincremental refresh after 1,500 walks: ${(performance.now() - t).toFixed(0)} ms (${walksOnly.days} days, ${walksOnly.applicators} applicators; steps in ms: ${JSON.stringify(walksOnly.steps)})`);
+    console.log(
+      `\nincremental refresh after 1,500 walks: ${(performance.now() - t).toFixed(0)} ms (${walksOnly.days} days, ${walksOnly.applicators} applicators; steps in ms: ${JSON.stringify(walksOnly.steps)})`,
+    );
     await db.raw(
       `insert into service_events (organisation_id, applicator_id, performed_on, actions, cause_code, parts)
        select organisation_id, applicator_id, current_date, actions, cause_code, parts from service_events where organisation_id = ? limit 300`,

@@ -127,7 +127,10 @@ export async function auditPages(base: string, cookie: string, targets: AuditTar
 export async function signIn(base: string, email: string, password: string): Promise<string> {
   const res = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'Content-Type': 'application/json', Origin: base }, body: JSON.stringify({ email, password }) });
   if (!res.ok) throw new Error(`sign-in as ${email} failed: ${res.status}`);
-  return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
 }
 
 /** Starts a walk on the demo "No flow from the valve" guide and returns the three pages to audit. */
@@ -203,13 +206,28 @@ async function main() {
     const port = await freePort();
     app = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], {
       cwd: root,
-      env: { ...process.env, DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', NODE_ENV: 'production', MEILI_URL: '', MEILI_API_KEY: '', FILES_DIR: filesDir, BEADPATH_DEMO: '1' },
+      env: {
+        ...process.env,
+        DATABASE_URL: dbUrl,
+        SESSION_SECRET: randomBytes(32).toString('hex'),
+        PORT: String(port),
+        HOST: '127.0.0.1',
+        LOG_LEVEL: 'warn',
+        NODE_ENV: 'production',
+        MEILI_URL: '',
+        MEILI_API_KEY: '',
+        FILES_DIR: filesDir,
+        BEADPATH_DEMO: '1',
+      },
       stdio: ['ignore', 'inherit', 'inherit'],
     });
     const base = `http://127.0.0.1:${port}`;
     let up = false;
     for (let i = 0; i < 300 && !up; i++) {
-      up = await fetch(`${base}/api/health`).then((r) => r.ok, () => false);
+      up = await fetch(`${base}/api/health`).then(
+        (r) => r.ok,
+        () => false,
+      );
       if (!up) await new Promise((r) => setTimeout(r, 100));
     }
     if (!up) throw new Error('the app did not start within 30 s');

@@ -44,7 +44,18 @@ async function startApp(dbUrl: string) {
   const port = await freePort();
   const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], {
     cwd: root,
-    env: { ...process.env, DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', NODE_ENV: 'production', MEILI_URL: '', MEILI_API_KEY: '', LOGIN_RATE_LIMIT: '100000' },
+    env: {
+      ...process.env,
+      DATABASE_URL: dbUrl,
+      SESSION_SECRET: randomBytes(32).toString('hex'),
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      LOG_LEVEL: 'warn',
+      NODE_ENV: 'production',
+      MEILI_URL: '',
+      MEILI_API_KEY: '',
+      LOGIN_RATE_LIMIT: '100000',
+    },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
   // Should this script die on an error, the app must not outlive it.
@@ -65,7 +76,10 @@ async function startApp(dbUrl: string) {
 async function signIn(base: string, email: string): Promise<string> {
   const res = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'Content-Type': 'application/json', Origin: base }, body: JSON.stringify({ email, password: PASSWORD }) });
   if (!res.ok) throw new Error(`sign-in failed for ${email}: ${res.status}`);
-  return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
 }
 
 type Step = (typeof SAMPLE_GUIDE.steps)[number];
@@ -157,7 +171,17 @@ async function main() {
     await db('users').insert(emails.map((email, i) => ({ organisation_id: org.id, email, name: `Technician ${i}`, roles: ['technician'], password_hash: hash })));
     const [guide] = await db('guides').insert({ organisation_id: org.id, status: 'active' }).returning('id');
     const [version] = await db('guide_versions')
-      .insert({ guide_id: guide.id, number: 1, state: 'published', title: SAMPLE_GUIDE_META.title, symptom: SAMPLE_GUIDE_META.symptom, summary: SAMPLE_GUIDE_META.summary ?? '', tags: SAMPLE_GUIDE_META.tags, content: JSON.stringify(SAMPLE_GUIDE), published_at: db.fn.now() })
+      .insert({
+        guide_id: guide.id,
+        number: 1,
+        state: 'published',
+        title: SAMPLE_GUIDE_META.title,
+        symptom: SAMPLE_GUIDE_META.symptom,
+        summary: SAMPLE_GUIDE_META.summary ?? '',
+        tags: SAMPLE_GUIDE_META.tags,
+        content: JSON.stringify(SAMPLE_GUIDE),
+        published_at: db.fn.now(),
+      })
       .returning('id');
     await db('guides').where({ id: guide.id }).update({ published_version_id: version.id });
 
@@ -210,7 +234,10 @@ async function main() {
         {
           method: 'POST',
           setupRequest: (req: any, ctx: Ctx) =>
-            stamp(ctx, req, { path: `/api/walks/${ctx.walkId}/answers`, body: JSON.stringify({ id: (ctx.answerId = `ans-${randomUUID()}`), answeredAt: new Date().toISOString(), ...firstAnswer(ctx) }) }),
+            stamp(ctx, req, {
+              path: `/api/walks/${ctx.walkId}/answers`,
+              body: JSON.stringify({ id: (ctx.answerId = `ans-${randomUUID()}`), answeredAt: new Date().toISOString(), ...firstAnswer(ctx) }),
+            }),
           onResponse: (s: number, b: string, ctx: Ctx) => {
             const out = timed('POST /api/walks/:id/answers')(s, b, ctx);
             if (s === 201 && out.duplicate === false) acknowledgedIds.add(ctx.answerId!);
@@ -255,11 +282,21 @@ async function main() {
     const userOf = new Map(users.map((u) => [u.email, u.id]));
     const perTech = Math.ceil((Math.max(query.rps, noop.rps) * PHASE * 2) / TECHS / 2) + 5;
     const walkRows = emails.flatMap((email) =>
-      Array.from({ length: perTech }, () => ({ organisation_id: org.id, guide_id: guide.id, guide_version_id: version.id, user_id: userOf.get(email), status: 'open', current_step_id: SAMPLE_GUIDE.startStepId, site: 'Load plant' })),
+      Array.from({ length: perTech }, () => ({
+        organisation_id: org.id,
+        guide_id: guide.id,
+        guide_version_id: version.id,
+        user_id: userOf.get(email),
+        status: 'open',
+        current_step_id: SAMPLE_GUIDE.startStepId,
+        site: 'Load plant',
+      })),
     );
     const walksOf = new Map<number, number[]>();
     for (let i = 0; i < walkRows.length; i += 2000) {
-      const made = (await db('walks').insert(walkRows.slice(i, i + 2000)).returning(['id', 'user_id'])) as { id: number; user_id: number }[];
+      const made = (await db('walks')
+        .insert(walkRows.slice(i, i + 2000))
+        .returning(['id', 'user_id'])) as { id: number; user_id: number }[];
       for (const w of made) walksOf.set(w.user_id, (walksOf.get(w.user_id) ?? []).concat(w.id));
     }
     // autocannon clears a connection's context after every request of the list, so each walk's
@@ -325,7 +362,14 @@ async function main() {
     const stored = Number((await db('walk_answers').count('* as n'))[0].n);
     const ids = [...acknowledgedIds, ...answeredAlone];
     let found = 0;
-    for (let i = 0; i < ids.length; i += 5000) found += Number((await db('walk_answers').whereIn('client_id', ids.slice(i, i + 5000)).count('* as n'))[0].n);
+    for (let i = 0; i < ids.length; i += 5000)
+      found += Number(
+        (
+          await db('walk_answers')
+            .whereIn('client_id', ids.slice(i, i + 5000))
+            .count('* as n')
+        )[0].n,
+      );
     const duplicates = Number((await db.raw('select count(*)::int as n from (select client_id from walk_answers group by client_id having count(*) > 1) d')).rows[0].n);
 
     const row = (label: string, count: number, rps: number, p50: number, p95: number) =>
@@ -340,7 +384,9 @@ async function main() {
     for (const p of [noop, query, answerAlone]) console.log(row(p.label, p.requests, p.rps, p.p50, p.p95));
     const failed = mixedFailed + noop.failed + query.failed + answerAlone.failed;
     console.log(`\nfailed requests: ${failed} (mixed ${mixedFailed}, floors ${noop.failed + query.failed}, answers alone ${answerAlone.failed})`);
-    console.log(`answers acknowledged: ${ids.length} (mixed ${acknowledgedIds.size}, alone ${answeredAlone.size}); of those in the database: ${found}; stored in all: ${stored} (the rest were in flight at a stop); stored twice: ${duplicates}`);
+    console.log(
+      `answers acknowledged: ${ids.length} (mixed ${acknowledgedIds.size}, alone ${answeredAlone.size}); of those in the database: ${found}; stored in all: ${stored} (the rest were in flight at a stop); stored twice: ${duplicates}`,
+    );
     const ok = failed === 0 && found === ids.length && acknowledgedIds.size > 0 && answeredAlone.size > 0 && duplicates === 0 && stored - ids.length <= 2 * TECHS;
     console.log(ok ? 'PASS: zero failed requests, zero lost or duplicated answers' : 'FAIL: failed requests, or lost or duplicated answers');
     const ratio = answerAlone.rps / query.rps;

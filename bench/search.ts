@@ -43,11 +43,66 @@ const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)];
 
 // The trade's words sit at middle ranks: common enough to matter, rare enough to find things.
 const TRADE = [
-  'drip', 'drool', 'dribble', 'weep', 'seep', 'leak', 'shot', 'dot', 'deposit', 'bead', 'valve', 'applicator', 'gun', 'nozzle',
-  'needle', 'seat', 'coil', 'solenoid', 'spring', 'seal', 'piston', 'regulator', 'filter', 'hose', 'heater', 'melt', 'glue',
-  'adhesive', 'epoxy', 'silicone', 'cyanoacrylate', 'sealant', 'viscosity', 'pressure', 'temperature', 'stringing', 'tail',
-  'spitting', 'skip', 'drift', 'placement', 'clog', 'cured', 'debris', 'chipped', 'worn', 'carbide', 'stainless', 'armature',
-  'driver', 'spike', 'voltage', 'duty', 'purge', 'bubble', 'trapped', 'shutoff', 'stroke', 'plunger', 'diaphragm',
+  'drip',
+  'drool',
+  'dribble',
+  'weep',
+  'seep',
+  'leak',
+  'shot',
+  'dot',
+  'deposit',
+  'bead',
+  'valve',
+  'applicator',
+  'gun',
+  'nozzle',
+  'needle',
+  'seat',
+  'coil',
+  'solenoid',
+  'spring',
+  'seal',
+  'piston',
+  'regulator',
+  'filter',
+  'hose',
+  'heater',
+  'melt',
+  'glue',
+  'adhesive',
+  'epoxy',
+  'silicone',
+  'cyanoacrylate',
+  'sealant',
+  'viscosity',
+  'pressure',
+  'temperature',
+  'stringing',
+  'tail',
+  'spitting',
+  'skip',
+  'drift',
+  'placement',
+  'clog',
+  'cured',
+  'debris',
+  'chipped',
+  'worn',
+  'carbide',
+  'stainless',
+  'armature',
+  'driver',
+  'spike',
+  'voltage',
+  'duty',
+  'purge',
+  'bubble',
+  'trapped',
+  'shutoff',
+  'stroke',
+  'plunger',
+  'diaphragm',
 ];
 
 /** Pseudo-words with distinct English stems, so every rank is its own lexeme. */
@@ -116,7 +171,9 @@ async function buildCorpus(db: Db, words: string[]) {
   const [org] = await db('organisations').insert({ name: 'Bench works' }).returning('id');
   await db('tags').insert(DEFAULT_TAGS.map((t, i) => ({ organisation_id: org.id, group: t.group, slug: t.slug, label: t.label, position: i })));
   const hash = await hashPassword(PASSWORD);
-  const [author] = await db('users').insert({ organisation_id: org.id, email: 'author@bench.invalid', name: 'Bench author', roles: ['author'], password_hash: hash }).returning('id');
+  const [author] = await db('users')
+    .insert({ organisation_id: org.id, email: 'author@bench.invalid', name: 'Bench author', roles: ['author'], password_hash: hash })
+    .returning('id');
   await db('users').insert({ organisation_id: org.id, email: 'tech@bench.invalid', name: 'Bench technician', roles: ['technician'], password_hash: hash });
   const slugs = DEFAULT_TAGS.map((t) => t.slug);
 
@@ -237,7 +294,17 @@ async function startApp(dbUrl: string): Promise<{ child: ChildProcess; base: str
   const flags = (process.env.BENCH_NODE_FLAGS ?? '').split(/\s+/).filter(Boolean);
   const child = spawn(process.execPath, [...flags, '--import', 'tsx', join(root, 'server/index.ts')], {
     cwd: root,
-    env: { ...process.env, DATABASE_URL: dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', NODE_ENV: 'production', MEILI_URL: '', MEILI_API_KEY: '' },
+    env: {
+      ...process.env,
+      DATABASE_URL: dbUrl,
+      SESSION_SECRET: randomBytes(32).toString('hex'),
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      LOG_LEVEL: 'warn',
+      NODE_ENV: 'production',
+      MEILI_URL: '',
+      MEILI_API_KEY: '',
+    },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
   const base = `http://127.0.0.1:${port}`;
@@ -260,7 +327,10 @@ async function signIn(base: string): Promise<string> {
     body: JSON.stringify({ email: 'tech@bench.invalid', password: PASSWORD }),
   });
   if (!res.ok) throw new Error(`sign-in failed: ${res.status}`);
-  return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
 }
 
 /** One GET over a kept-alive connection; node:http keeps the load generator's own CPU use small. */
@@ -302,7 +372,9 @@ async function loadApp(base: string, cookie: string, queries: string[], clients:
 function pgBinDir(): string {
   if (process.env.PG_BINDIR && existsSync(join(process.env.PG_BINDIR, 'pgbench'))) return process.env.PG_BINDIR;
   const base = '/usr/lib/postgresql';
-  const v = readdirSync(base).filter((x) => existsSync(join(base, x, 'bin', 'pgbench'))).sort((a, b) => Number(b) - Number(a))[0];
+  const v = readdirSync(base)
+    .filter((x) => existsSync(join(base, x, 'bin', 'pgbench')))
+    .sort((a, b) => Number(b) - Number(a))[0];
   if (!v) throw new Error('pgbench was not found under /usr/lib/postgresql');
   return join(base, v, 'bin');
 }
@@ -326,7 +398,26 @@ function pgbench(cluster: { port: number; password: string }, dbName: string, cl
     const perClient = Math.ceil(QUERIES / clients);
     const res = spawnSync(
       join(pgBinDir(), 'pgbench'),
-      ['-n', '-f', script, '-c', String(clients), '-j', String(Math.min(clients, 2)), '-t', String(perClient), '-l', `--log-prefix=${join(dir, 'tx')}`, '-h', '127.0.0.1', '-p', String(cluster.port), '-U', 'app', dbName],
+      [
+        '-n',
+        '-f',
+        script,
+        '-c',
+        String(clients),
+        '-j',
+        String(Math.min(clients, 2)),
+        '-t',
+        String(perClient),
+        '-l',
+        `--log-prefix=${join(dir, 'tx')}`,
+        '-h',
+        '127.0.0.1',
+        '-p',
+        String(cluster.port),
+        '-U',
+        'app',
+        dbName,
+      ],
       { encoding: 'utf8', env: { ...process.env, PGPASSWORD: cluster.password }, cwd: dir },
     );
     if (res.status !== 0) throw new Error(`pgbench failed: ${res.stderr || res.stdout}`);
@@ -397,7 +488,12 @@ async function main() {
     console.log(
       `${docs?.n} documents (articles average ${avgWords.rows[0].n} words); ${mix.length} queries, matching median ${pct(shares, 50).toFixed(2)}% and p95 ${pct(shares, 95).toFixed(1)}% of documents`,
     );
-    console.log(`examples: ${mix.slice(0, 6).map((m) => `"${m.q}"`).join(', ')}`);
+    console.log(
+      `examples: ${mix
+        .slice(0, 6)
+        .map((m) => `"${m.q}"`)
+        .join(', ')}`,
+    );
 
     // Like `npm start`, the app reaches PostgreSQL through the cluster's Unix socket; BENCH_PG_TCP=1 uses loopback TCP.
     const appDbUrl = process.env.BENCH_PG_TCP === '1' ? dbUrl : cluster.localUrlFor(dbName);
@@ -429,7 +525,9 @@ async function main() {
     ] as const;
     const appMs = (cpu1.app - cpu0.app) / queries.length;
     const pgMs = [...cpu1.pg].reduce((sum, [pid, t]) => sum + t - (cpu0.pg.get(pid) ?? 0), 0) / queries.length;
-    console.log(`\nCPU per search at 16 clients: app ${appMs.toFixed(2)} ms, PostgreSQL ${pgMs.toFixed(2)} ms, together ${(appMs + pgMs).toFixed(2)} ms (2 cores: ceiling about ${(2000 / (appMs + pgMs)).toFixed(0)} q/s)`);
+    console.log(
+      `\nCPU per search at 16 clients: app ${appMs.toFixed(2)} ms, PostgreSQL ${pgMs.toFixed(2)} ms, together ${(appMs + pgMs).toFixed(2)} ms (2 cores: ceiling about ${(2000 / (appMs + pgMs)).toFixed(0)} q/s)`,
+    );
     console.log('');
     for (const [what, ok] of checks) console.log(`${ok ? 'met    ' : 'MISSED '} ${what}`);
   } finally {

@@ -91,7 +91,7 @@ export async function up(knex: Knex): Promise<void> {
     t.timestamp('updated_at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
   });
   await knex.raw(`alter table walks add constraint walks_status_valid check (status in ('open','ended','abandoned'))`);
-  await knex.raw('create index walks_user_open on walks (user_id) where status = \'open\'');
+  await knex.raw("create index walks_user_open on walks (user_id) where status = 'open'");
   await knex.raw('create index walks_guide on walks (guide_id, ended_at)');
 
   await knex.schema.createTable('walk_answers', (t) => {

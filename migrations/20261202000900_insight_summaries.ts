@@ -199,7 +199,9 @@ export async function up(knex: Knex): Promise<void> {
       return null;
     end $$`);
   await knex.raw('create trigger insight_services_ins after insert on service_events referencing new table as new_rows for each statement execute function insight_services_ins()');
-  await knex.raw('create trigger insight_services_upd after update on service_events referencing old table as old_rows new table as new_rows for each statement execute function insight_services_upd()');
+  await knex.raw(
+    'create trigger insight_services_upd after update on service_events referencing old table as old_rows new table as new_rows for each statement execute function insight_services_upd()',
+  );
   await knex.raw('create trigger insight_services_del after delete on service_events referencing old table as old_rows for each statement execute function insight_services_del()');
 
   // Counters, applicators, sites and lines: only the forecast and reliability answers depend on them.
@@ -216,9 +218,7 @@ export async function up(knex: Knex): Promise<void> {
           insert into insight_dirty (organisation_id, kind) select distinct organisation_id, 'assets' from ${rows}_rows;
           return null;
         end $$`);
-      await knex.raw(
-        `create trigger insight_${table}_${op} after ${event} on ${table} referencing ${rows} table as ${rows}_rows for each statement execute function insight_${table}_${op}()`,
-      );
+      await knex.raw(`create trigger insight_${table}_${op} after ${event} on ${table} referencing ${rows} table as ${rows}_rows for each statement execute function insight_${table}_${op}()`);
     }
   }
   // The organisation's default service intervals feed the forecast and the reliability comparison.
@@ -229,7 +229,9 @@ export async function up(knex: Knex): Promise<void> {
       select n.id, 'assets' from new_rows n join old_rows o on o.id = n.id where o.settings is distinct from n.settings;
       return null;
     end $$`);
-  await knex.raw('create trigger insight_organisations_upd after update on organisations referencing old table as old_rows new table as new_rows for each statement execute function insight_organisations_upd()');
+  await knex.raw(
+    'create trigger insight_organisations_upd after update on organisations referencing old table as old_rows new table as new_rows for each statement execute function insight_organisations_upd()',
+  );
 }
 
 export async function down(knex: Knex): Promise<void> {

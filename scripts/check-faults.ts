@@ -86,13 +86,25 @@ async function freshDatabase(name: string): Promise<{ db: Db; url: string; drop:
 
 /** An organisation with technicians and the sample guide published, written straight to the tables. */
 async function seed(db: Db, techs: number, label: string) {
-  const [org] = await db('organisations').insert({ name: `${label} works` }).returning('id');
+  const [org] = await db('organisations')
+    .insert({ name: `${label} works` })
+    .returning('id');
   const hash = await hashPassword(PASSWORD);
   const emails = Array.from({ length: techs }, (_, i) => `tech${i}@${label}.invalid`);
   await db('users').insert(emails.map((email, i) => ({ organisation_id: org.id, email, name: `Technician ${i}`, roles: ['technician'], password_hash: hash })));
   const [guide] = await db('guides').insert({ organisation_id: org.id, status: 'active' }).returning('id');
   const [version] = await db('guide_versions')
-    .insert({ guide_id: guide.id, number: 1, state: 'published', title: SAMPLE_GUIDE_META.title, symptom: SAMPLE_GUIDE_META.symptom, summary: SAMPLE_GUIDE_META.summary ?? '', tags: SAMPLE_GUIDE_META.tags, content: JSON.stringify(SAMPLE_GUIDE), published_at: db.fn.now() })
+    .insert({
+      guide_id: guide.id,
+      number: 1,
+      state: 'published',
+      title: SAMPLE_GUIDE_META.title,
+      symptom: SAMPLE_GUIDE_META.symptom,
+      summary: SAMPLE_GUIDE_META.summary ?? '',
+      tags: SAMPLE_GUIDE_META.tags,
+      content: JSON.stringify(SAMPLE_GUIDE),
+      published_at: db.fn.now(),
+    })
     .returning('id');
   await db('guides').where({ id: guide.id }).update({ published_version_id: version.id });
   return { organisationId: org.id as number, emails, guideId: guide.id as number };
@@ -172,7 +184,10 @@ async function call(base: string, cookie: string, method: string, path: string, 
 async function signIn(base: string, email: string): Promise<string> {
   const res = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json', origin: base }, body: JSON.stringify({ email, password: PASSWORD }) });
   if (!res.ok) throw new Error(`sign-in failed for ${email}: ${res.status}`);
-  return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
 }
 
 /** A valid next entry for the sample guide where the walk stands: cautions first, then an answer. */
@@ -300,7 +315,14 @@ async function checkRestartDuringWalks() {
 
     const ids = [...acknowledged];
     let found = 0;
-    for (let i = 0; i < ids.length; i += 5000) found += Number((await db('walk_answers').whereIn('client_id', ids.slice(i, i + 5000)).count('* as n'))[0].n);
+    for (let i = 0; i < ids.length; i += 5000)
+      found += Number(
+        (
+          await db('walk_answers')
+            .whereIn('client_id', ids.slice(i, i + 5000))
+            .count('* as n')
+        )[0].n,
+      );
     const stored = Number((await db('walk_answers').count('* as n'))[0].n);
     const duplicates = Number((await db.raw('select count(*)::int as n from (select walk_id, client_id from walk_answers group by 1, 2 having count(*) > 1) d')).rows[0].n);
     const sameProcess = app.child.exitCode === null && app.child.pid === pid;
@@ -309,19 +331,30 @@ async function checkRestartDuringWalks() {
     const hangs = (statuses.get('timeout') ?? 0) + (statuses.get('network') ?? 0);
     const summary = [...statuses].map(([k, n]) => `${k}: ${n}`).join(', ');
     // What the server logged for its 500s, so a failure names its cause.
-    const unhandled = app.log.filter((l) => l.includes('unhandled error')).map((l) => {
-      const e = JSON.parse(l).err ?? {};
-      return `${e.code ?? ''} ${String(e.message ?? '').slice(0, 160)}`.trim();
-    });
+    const unhandled = app.log
+      .filter((l) => l.includes('unhandled error'))
+      .map((l) => {
+        const e = JSON.parse(l).err ?? {};
+        return `${e.code ?? ''} ${String(e.message ?? '').slice(0, 160)}`.trim();
+      });
     if (unhandled.length) failures.unshift(`server log: ${[...new Set(unhandled)].slice(0, 3).join(' | ')}`);
 
-    record('A1 requests while PostgreSQL is down', got503 > 0 && got500 === 0 && hangs === 0 && failures.length === 0,
+    record(
+      'A1 requests while PostgreSQL is down',
+      got503 > 0 && got500 === 0 && hangs === 0 && failures.length === 0,
       `${TECHS} technicians; PostgreSQL stopped (pg_ctl -m fast) for ${DOWN_S} s; replies ${summary}; 503 "database is not reachable" ${got503}, other 5xx ${got500}, no reply ${hangs}, slowest reply ${(slowest / 1000).toFixed(1)} s (client limit ${CLIENT_TIMEOUT_MS / 1000} s)` +
-        (failures.length ? `; first problems: ${failures.slice(0, 3).join(' | ')}` : ''));
-    record('A2 recovery without restarting the server', sameProcess && Number.isFinite(recoveredMs) && afterRestart.acknowledged > 0,
-      `same process ${sameProcess ? 'still running' : 'GONE'}; health 200 again ${Number.isFinite(recoveredMs) ? `${(recoveredMs / 1000).toFixed(1)} s after PostgreSQL was started` : 'NEVER'}; ${afterRestart.acknowledged} answers acknowledged after the restart (${before} before the stop)`);
-    record('A3 every acknowledged answer stored exactly once', ids.length > 0 && found === ids.length && duplicates === 0 && stored === ids.length,
-      `acknowledged ${ids.length}; of those in the database ${found}; stored in all ${stored}; stored twice ${duplicates}`);
+        (failures.length ? `; first problems: ${failures.slice(0, 3).join(' | ')}` : ''),
+    );
+    record(
+      'A2 recovery without restarting the server',
+      sameProcess && Number.isFinite(recoveredMs) && afterRestart.acknowledged > 0,
+      `same process ${sameProcess ? 'still running' : 'GONE'}; health 200 again ${Number.isFinite(recoveredMs) ? `${(recoveredMs / 1000).toFixed(1)} s after PostgreSQL was started` : 'NEVER'}; ${afterRestart.acknowledged} answers acknowledged after the restart (${before} before the stop)`,
+    );
+    record(
+      'A3 every acknowledged answer stored exactly once',
+      ids.length > 0 && found === ids.length && duplicates === 0 && stored === ids.length,
+      `acknowledged ${ids.length}; of those in the database ${found}; stored in all ${stored}; stored twice ${duplicates}`,
+    );
   } finally {
     await app.stop();
     await drop();
@@ -384,7 +417,8 @@ async function checkMailQueue() {
   let app: AppProcess | null = null;
   try {
     const { emails } = await seed(db, 2, 'mail');
-    const reset = (email: string) => fetch(`${app!.base}/api/auth/password-reset`, { method: 'POST', headers: { 'content-type': 'application/json', origin: app!.base }, body: JSON.stringify({ email }) });
+    const reset = (email: string) =>
+      fetch(`${app!.base}/api/auth/password-reset`, { method: 'POST', headers: { 'content-type': 'application/json', origin: app!.base }, body: JSON.stringify({ email }) });
     const messageFor = async (email: string) => db('mail_messages').where({ to_address: email }).first('id', 'status', 'attempts', 'message_id');
 
     // B1: the mail server is down, so the message waits; then the server process stops, PostgreSQL
@@ -409,9 +443,12 @@ async function checkMailQueue() {
       // that attempt has expired (60 s with these settings).
     }, 90_000);
     const copies = sent ? sink.received.filter((raw) => raw.includes(sent.message_id)).length : 0;
-    record('B1 mail waiting while the server is down and PostgreSQL restarts', !!waiting && !!sent && copies === 1,
+    record(
+      'B1 mail waiting while the server is down and PostgreSQL restarts',
+      !!waiting && !!sent && copies === 1,
       `message ${waiting ? `waited (status retrying after ${waiting.attempts} attempt(s), mail server down)` : 'NEVER reached retrying'}; server process stopped, PostgreSQL restarted, mail server and a new server process started; ` +
-        (sent ? `sent ${((performance.now() - t0) / 1000).toFixed(1)} s after the new start, ${copies} cop${copies === 1 ? 'y' : 'ies'} received` : 'NOT sent within 90 s'));
+        (sent ? `sent ${((performance.now() - t0) / 1000).toFixed(1)} s after the new start, ${copies} cop${copies === 1 ? 'y' : 'ies'} received` : 'NOT sent within 90 s'),
+    );
 
     // B2: the server keeps running through a PostgreSQL restart; its queue worker must pick up again.
     pgStop();
@@ -425,8 +462,11 @@ async function checkMailQueue() {
       return m && m.status === 'sent' ? m : undefined;
     }, 30_000);
     const copies2 = sent2 ? sink.received.filter((raw) => raw.includes(sent2.message_id)).length : 0;
-    record('B2 mail queued after PostgreSQL restarts under a running server', !!sent2 && copies2 === 1,
-      `PostgreSQL stopped ${DOWN_S} s and started; the same server process ${sent2 ? `sent a new message ${((performance.now() - t1) / 1000).toFixed(1)} s after it was asked, ${copies2} cop${copies2 === 1 ? 'y' : 'ies'} received` : 'did NOT send a new message within 30 s'}`);
+    record(
+      'B2 mail queued after PostgreSQL restarts under a running server',
+      !!sent2 && copies2 === 1,
+      `PostgreSQL stopped ${DOWN_S} s and started; the same server process ${sent2 ? `sent a new message ${((performance.now() - t1) / 1000).toFixed(1)} s after it was asked, ${copies2} cop${copies2 === 1 ? 'y' : 'ies'} received` : 'did NOT send a new message within 30 s'}`,
+    );
   } finally {
     await app?.stop();
     await sink.stop();
@@ -465,7 +505,11 @@ async function checkTwoServers() {
     expect(out.status === 204 && meA.body?.user === null && walkA.status === 401, 'signing out on B ends the session on A too');
     const stored = Number((await db('walk_answers').where({ walk_id: walkId }).count('* as n'))[0].n);
     expect(stored === 2, `the database holds the walk's 2 answers once each (${stored})`);
-    record('C  two server processes on one database', steps.every((s) => s.startsWith('ok')), steps.join('; '));
+    record(
+      'C  two server processes on one database',
+      steps.every((s) => s.startsWith('ok')),
+      steps.join('; '),
+    );
   } finally {
     await Promise.all([a.stop(), b.stop()]);
     await drop();
@@ -493,8 +537,11 @@ async function checkSearchFallback() {
     await fake.start();
     const back = await call(app.base, cookie, 'GET', '/api/search?q=drip');
     const ok = up.status === 200 && up.body?.engine === 'meilisearch' && down.status === 200 && down.body?.engine === 'postgres' && down.body?.fallback === true && back.status === 200;
-    record('D  search server going away', ok,
-      `with the search server up ${up.status} (${up.body?.engine}); stopped: ${down.status} from ${down.body?.engine}${down.body?.fallback ? ' (fallback)' : ''} in ${down.ms.toFixed(0)} ms; back: ${back.status}. In depth: tests/api/search-meili.test.ts (slow server, missed updates replayed)`);
+    record(
+      'D  search server going away',
+      ok,
+      `with the search server up ${up.status} (${up.body?.engine}); stopped: ${down.status} from ${down.body?.engine}${down.body?.fallback ? ' (fallback)' : ''} in ${down.ms.toFixed(0)} ms; back: ${back.status}. In depth: tests/api/search-meili.test.ts (slow server, missed updates replayed)`,
+    );
   } finally {
     await app.stop();
     await fake.close();

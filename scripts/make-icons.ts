@@ -9,6 +9,9 @@ const pub = join(resolve(import.meta.dirname, '..'), 'public');
 const svg = readFileSync(join(pub, 'icon.svg'));
 for (const size of [192, 512]) {
   const out = join(pub, `icon-${size}.png`);
-  await sharp(svg, { density: Math.ceil((72 * size) / 512) * 2 }).resize(size, size).png({ compressionLevel: 9 }).toFile(out);
+  await sharp(svg, { density: Math.ceil((72 * size) / 512) * 2 })
+    .resize(size, size)
+    .png({ compressionLevel: 9 })
+    .toFile(out);
   console.log(`wrote ${out}`);
 }

@@ -52,7 +52,10 @@ try {
           .orWhere((g) => g.where('kind', 'guide').whereNotIn('ref_id', db('guides').select('id'))),
       )
       .delete();
-    for (const [kind, ids] of [['guide', guides], ['article', articles]] as const) {
+    for (const [kind, ids] of [
+      ['guide', guides],
+      ['article', articles],
+    ] as const) {
       const show = progress(`organisation ${org}: ${kind}s`);
       show(0, ids.length);
       for (let i = 0; i < ids.length; i += BATCH) {
@@ -60,7 +63,11 @@ try {
         const visible = [...found.values()].filter((s): s is SearchSource => s !== null);
         const gone = [...found.entries()].filter(([, s]) => s === null).map(([refId]) => ({ kind, refId }));
         await repo.upsertDocuments(db, visible);
-        await repo.deleteDocuments(db, kind, gone.map((g) => g.refId));
+        await repo.deleteDocuments(
+          db,
+          kind,
+          gone.map((g) => g.refId),
+        );
         if (meili && visible.length) await meili.apply(org, visible, []);
         show(Math.min(i + BATCH, ids.length), ids.length);
       }

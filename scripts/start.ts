@@ -26,6 +26,7 @@ if (process.env.BEADPATH_DEMO === '1') {
   console.log(`Demo sign-ins (password "${DEMO_PASSWORD}"):`);
   for (const u of DEMO_USERS) console.log(`  ${u.email.padEnd(22)} ${u.roles.join(', ')}`);
 }
-if (process.env.FAKE_SMTP === '1' || (!process.env.SMTP_URL && !process.env.SMTP_HOST && process.env.FAKE_SMTP !== '0')) console.log(`E-mails are kept by the local fake SMTP server: an admin sees them at ${url}/admin/outbox`);
+if (process.env.FAKE_SMTP === '1' || (!process.env.SMTP_URL && !process.env.SMTP_HOST && process.env.FAKE_SMTP !== '0'))
+  console.log(`E-mails are kept by the local fake SMTP server: an admin sees them at ${url}/admin/outbox`);
 console.log('Stop with Ctrl+C (PostgreSQL keeps running; `npm run db:stop` stops it).\n');
 for (const sig of ['SIGINT', 'SIGTERM'] as const) process.once(sig, () => void shutdown(sig).then(() => process.exit(0)));

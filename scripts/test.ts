@@ -17,8 +17,7 @@ function need(what: string, present: boolean, packages: string[]) {
   execFileSync('apt-get', ['install', '-y', ...packages], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
 }
 
-const hasPostgres =
-  existsSync('/usr/lib/postgresql') && readdirSync('/usr/lib/postgresql').some((v) => existsSync(`/usr/lib/postgresql/${v}/bin/initdb`));
+const hasPostgres = existsSync('/usr/lib/postgresql') && readdirSync('/usr/lib/postgresql').some((v) => existsSync(`/usr/lib/postgresql/${v}/bin/initdb`));
 need('PostgreSQL', hasPostgres || Boolean(process.env.DATABASE_URL), ['postgresql', 'postgresql-contrib']);
 need('Chromium', existsSync(process.env.CHROMIUM || '/usr/bin/chromium'), ['chromium']);
 

@@ -39,7 +39,17 @@ const APPLICATORS: DemoApplicator[] = [
     site: 'Mill Road plant',
     line: 'Line 3 (carton sealing)',
     tag: 'V-312',
-    spec: { actuation: 'electric', coilDrive: 'high-voltage', ...carbideBall, nozzle: 'Single orifice, 0.5 mm', ...hotMelt, installedOn: daysAgo(420), cyclesPerMinute: 90, hoursPerDay: 16, daysPerWeek: 5 },
+    spec: {
+      actuation: 'electric',
+      coilDrive: 'high-voltage',
+      ...carbideBall,
+      nozzle: 'Single orifice, 0.5 mm',
+      ...hotMelt,
+      installedOn: daysAgo(420),
+      cyclesPerMinute: 90,
+      hoursPerDay: 16,
+      daysPerWeek: 5,
+    },
     perDay: 62_000,
     history: 240,
     custom: { coil: 25, shelf: 'Store B, bin 14' },
@@ -48,7 +58,17 @@ const APPLICATORS: DemoApplicator[] = [
     site: 'Mill Road plant',
     line: 'Line 3 (carton sealing)',
     tag: 'V-313',
-    spec: { actuation: 'electric', coilDrive: 'high-voltage', ...carbideBall, nozzle: 'Single orifice, 0.5 mm', ...hotMelt, installedOn: daysAgo(420), cyclesPerMinute: 90, hoursPerDay: 16, daysPerWeek: 5 },
+    spec: {
+      actuation: 'electric',
+      coilDrive: 'high-voltage',
+      ...carbideBall,
+      nozzle: 'Single orifice, 0.5 mm',
+      ...hotMelt,
+      installedOn: daysAgo(420),
+      cyclesPerMinute: 90,
+      hoursPerDay: 16,
+      daysPerWeek: 5,
+    },
     perDay: 58_000,
     history: 240,
     custom: { coil: 25, shelf: 'Store B, bin 14' },
@@ -57,7 +77,20 @@ const APPLICATORS: DemoApplicator[] = [
     site: 'Mill Road plant',
     line: 'Line 3 (carton sealing)',
     tag: 'V-314',
-    spec: { actuation: 'electric', coilDrive: '24v-dc', needleTip: 'cone', needleMaterial: 'Silicon carbide', seatMaterial: 'Stainless steel', orificeDiameterMm: 0.6, nozzle: 'Dot nozzle, 0.4 mm', ...hotMelt, installedOn: daysAgo(300), cyclesPerMinute: 300, hoursPerDay: 20, daysPerWeek: 6 },
+    spec: {
+      actuation: 'electric',
+      coilDrive: '24v-dc',
+      needleTip: 'cone',
+      needleMaterial: 'Silicon carbide',
+      seatMaterial: 'Stainless steel',
+      orificeDiameterMm: 0.6,
+      nozzle: 'Dot nozzle, 0.4 mm',
+      ...hotMelt,
+      installedOn: daysAgo(300),
+      cyclesPerMinute: 300,
+      hoursPerDay: 20,
+      daysPerWeek: 6,
+    },
     perDay: 300_000,
     history: 250,
     custom: { coil: 12.2 },
@@ -66,7 +99,26 @@ const APPLICATORS: DemoApplicator[] = [
     site: 'Mill Road plant',
     line: 'Line 5 (tray forming)',
     tag: 'A-501',
-    spec: { actuation: 'air-operated', airPressureBar: 5.5, needleTip: 'cone', needleMaterial: 'Hardened stainless steel', seatMaterial: 'Stainless steel', orificeDiameterMm: 1.2, nozzle: 'Bead nozzle, 1.0 mm', fluidFamily: 'cold-glue', fluidName: 'Aqua-bond 30 (demo)', viscosityMPas: 3000, viscosityTemperatureC: 20, densityGPerCm3: 1.08, heated: false, installedOn: daysAgo(500), cyclesPerMinute: 40, hoursPerDay: 16, daysPerWeek: 5, sealsIntervalCycles: 20_000_000 },
+    spec: {
+      actuation: 'air-operated',
+      airPressureBar: 5.5,
+      needleTip: 'cone',
+      needleMaterial: 'Hardened stainless steel',
+      seatMaterial: 'Stainless steel',
+      orificeDiameterMm: 1.2,
+      nozzle: 'Bead nozzle, 1.0 mm',
+      fluidFamily: 'cold-glue',
+      fluidName: 'Aqua-bond 30 (demo)',
+      viscosityMPas: 3000,
+      viscosityTemperatureC: 20,
+      densityGPerCm3: 1.08,
+      heated: false,
+      installedOn: daysAgo(500),
+      cyclesPerMinute: 40,
+      hoursPerDay: 16,
+      daysPerWeek: 5,
+      sealsIntervalCycles: 20_000_000,
+    },
     perDay: 28_000,
     history: 300,
     custom: { shelf: 'Store A, bin 3' },
@@ -75,7 +127,20 @@ const APPLICATORS: DemoApplicator[] = [
     site: 'Mill Road plant',
     line: 'Line 5 (tray forming)',
     tag: 'A-502',
-    spec: { actuation: 'air-operated', airPressureBar: 5.5, needleTip: 'cone', needleMaterial: 'Hardened stainless steel', seatMaterial: 'Stainless steel', orificeDiameterMm: 1.2, nozzle: 'Bead nozzle, 1.0 mm', fluidFamily: 'cold-glue', fluidName: 'Aqua-bond 30 (demo)', heated: false, installedOn: daysAgo(90), status: 'spare' },
+    spec: {
+      actuation: 'air-operated',
+      airPressureBar: 5.5,
+      needleTip: 'cone',
+      needleMaterial: 'Hardened stainless steel',
+      seatMaterial: 'Stainless steel',
+      orificeDiameterMm: 1.2,
+      nozzle: 'Bead nozzle, 1.0 mm',
+      fluidFamily: 'cold-glue',
+      fluidName: 'Aqua-bond 30 (demo)',
+      heated: false,
+      installedOn: daysAgo(90),
+      status: 'spare',
+    },
   },
   {
     site: 'Wharf Street plant',
@@ -89,7 +154,25 @@ const APPLICATORS: DemoApplicator[] = [
     site: 'Wharf Street plant',
     line: 'Line 2 (labelling)',
     tag: 'W-201',
-    spec: { actuation: 'air-operated', airPressureBar: 4.5, needleTip: 'ball', needleMaterial: 'Tungsten carbide', seatMaterial: 'Stainless steel', orificeDiameterMm: 0.5, nozzle: 'Spray cap', fluidFamily: 'silicone', fluidName: 'Siltack 5 (demo)', viscosityMPas: 800, viscosityTemperatureC: 25, densityGPerCm3: 1.02, heated: false, installedOn: daysAgo(365), cyclesPerMinute: 30, hoursPerDay: 8, daysPerWeek: 5 },
+    spec: {
+      actuation: 'air-operated',
+      airPressureBar: 4.5,
+      needleTip: 'ball',
+      needleMaterial: 'Tungsten carbide',
+      seatMaterial: 'Stainless steel',
+      orificeDiameterMm: 0.5,
+      nozzle: 'Spray cap',
+      fluidFamily: 'silicone',
+      fluidName: 'Siltack 5 (demo)',
+      viscosityMPas: 800,
+      viscosityTemperatureC: 25,
+      densityGPerCm3: 1.02,
+      heated: false,
+      installedOn: daysAgo(365),
+      cyclesPerMinute: 30,
+      hoursPerDay: 8,
+      daysPerWeek: 5,
+    },
     perDay: 12_000,
     history: 120,
   },
@@ -101,8 +184,6 @@ const APPLICATORS: DemoApplicator[] = [
   },
 ];
 
-
-
 export async function seed(knex: Knex): Promise<void> {
   if (process.env.BEADPATH_DEMO !== '1') return;
   const org = await knex('organisations').where({ name: DEMO_ORGANISATION }).first();
@@ -112,9 +193,25 @@ export async function seed(knex: Knex): Promise<void> {
   const author = await knex('users').where({ email: 'author@example.com' }).first();
   await knex.transaction(async (trx) => {
     const siteId = new Map<string, number>();
-    for (const s of SITES) siteId.set(s.name, (await trx('sites').insert({ organisation_id: org.id, ...s }).returning('id'))[0].id);
+    for (const s of SITES)
+      siteId.set(
+        s.name,
+        (
+          await trx('sites')
+            .insert({ organisation_id: org.id, ...s })
+            .returning('id')
+        )[0].id,
+      );
     const lineId = new Map<string, number>();
-    for (const l of LINES) lineId.set(l.name, (await trx('lines').insert({ organisation_id: org.id, site_id: siteId.get(l.site), name: l.name, area: l.area }).returning('id'))[0].id);
+    for (const l of LINES)
+      lineId.set(
+        l.name,
+        (
+          await trx('lines')
+            .insert({ organisation_id: org.id, site_id: siteId.get(l.site), name: l.name, area: l.area })
+            .returning('id')
+        )[0].id,
+      );
     const [coil] = await trx('applicator_fields').insert({ organisation_id: org.id, name: 'Coil resistance at 20 °C', type: 'number', unit: 'ohm', position: 0 }).returning('id');
     const [shelf] = await trx('applicator_fields').insert({ organisation_id: org.id, name: 'Spare kit location', type: 'text', position: 1 }).returning('id');
 
@@ -150,13 +247,61 @@ export async function seed(knex: Knex): Promise<void> {
     }
 
     const reading = async (tag: string, age: number) =>
-      trx('counter_readings').where({ applicator_id: ids.get(tag) }).where('read_on', '<=', daysAgo(age)).orderBy([{ column: 'read_on', order: 'desc' }, { column: 'id', order: 'desc' }]).first('id', 'count');
+      trx('counter_readings')
+        .where({ applicator_id: ids.get(tag) })
+        .where('read_on', '<=', daysAgo(age))
+        .orderBy([
+          { column: 'read_on', order: 'desc' },
+          { column: 'id', order: 'desc' },
+        ])
+        .first('id', 'count');
     const events = [
-      { tag: 'V-312', age: 128, actions: ['seat-replaced', 'cleaned'], cause: 'seat-worn', parts: [{ name: 'Seat kit, 0.8 mm', partNumber: 'LK-SK-08', quantity: 1 }], notes: 'Drips after close. Wide frosted ring on the seat under the loupe.' },
-      { tag: 'V-312', age: 44, actions: ['cleaned', 'nozzle-replaced'], cause: 'nozzle-blocked', parts: [{ name: 'Nozzle, single orifice 0.5 mm', partNumber: 'LK-NZ-05', quantity: 1 }], notes: 'Charred melt in the nozzle after a weekend stop.' },
-      { tag: 'V-314', age: 100, actions: ['coil-replaced'], cause: 'coil-overheating', parts: [{ name: 'Coil, 24 V DC', partNumber: 'LK-CL-24', quantity: 1 }], notes: 'Coil ran hot; driver hold current set back to the work instruction.' },
-      { tag: 'A-501', age: 72, actions: ['seals-replaced'], cause: null, parts: [{ name: 'Seal kit, air valve', partNumber: 'LK-SL-12', quantity: 1 }, { name: 'O-ring 6 × 1.5', partNumber: 'LK-OR-615', quantity: 2 }], notes: 'Planned seal change.' },
-      { tag: 'W-201', age: 20, actions: ['needle-replaced', 'seat-replaced'], cause: 'needle-chipped', parts: [{ name: 'Needle, carbide ball', partNumber: 'LK-ND-TB', quantity: 1 }, { name: 'Seat kit, 0.5 mm', partNumber: 'LK-SK-05', quantity: 1 }], notes: 'Chip on the ball; seat notched by it.' },
+      {
+        tag: 'V-312',
+        age: 128,
+        actions: ['seat-replaced', 'cleaned'],
+        cause: 'seat-worn',
+        parts: [{ name: 'Seat kit, 0.8 mm', partNumber: 'LK-SK-08', quantity: 1 }],
+        notes: 'Drips after close. Wide frosted ring on the seat under the loupe.',
+      },
+      {
+        tag: 'V-312',
+        age: 44,
+        actions: ['cleaned', 'nozzle-replaced'],
+        cause: 'nozzle-blocked',
+        parts: [{ name: 'Nozzle, single orifice 0.5 mm', partNumber: 'LK-NZ-05', quantity: 1 }],
+        notes: 'Charred melt in the nozzle after a weekend stop.',
+      },
+      {
+        tag: 'V-314',
+        age: 100,
+        actions: ['coil-replaced'],
+        cause: 'coil-overheating',
+        parts: [{ name: 'Coil, 24 V DC', partNumber: 'LK-CL-24', quantity: 1 }],
+        notes: 'Coil ran hot; driver hold current set back to the work instruction.',
+      },
+      {
+        tag: 'A-501',
+        age: 72,
+        actions: ['seals-replaced'],
+        cause: null,
+        parts: [
+          { name: 'Seal kit, air valve', partNumber: 'LK-SL-12', quantity: 1 },
+          { name: 'O-ring 6 × 1.5', partNumber: 'LK-OR-615', quantity: 2 },
+        ],
+        notes: 'Planned seal change.',
+      },
+      {
+        tag: 'W-201',
+        age: 20,
+        actions: ['needle-replaced', 'seat-replaced'],
+        cause: 'needle-chipped',
+        parts: [
+          { name: 'Needle, carbide ball', partNumber: 'LK-ND-TB', quantity: 1 },
+          { name: 'Seat kit, 0.5 mm', partNumber: 'LK-SK-05', quantity: 1 },
+        ],
+        notes: 'Chip on the ball; seat notched by it.',
+      },
     ];
     for (const e of events) {
       const r = await reading(e.tag, e.age);

@@ -11,7 +11,13 @@ export async function seed(knex: Knex): Promise<void> {
   const org = await knex('organisations').where({ name: DEMO_ORGANISATION }).first();
   if (!org) return;
   // The cheap check first, so a restart does not read the content files for nothing.
-  if (await knex('walks').where({ organisation_id: org.id }).where('started_at', '<', new Date(Date.now() - 30 * 86_400_000)).first('id')) return;
+  if (
+    await knex('walks')
+      .where({ organisation_id: org.id })
+      .where('started_at', '<', new Date(Date.now() - 30 * 86_400_000))
+      .first('id')
+  )
+    return;
   // One transaction: a year half written would make the next start skip the rest.
   await knex.transaction(async (trx) => generateHistory(await historyContext(trx, org.id, { seed: HISTORY_SEED })));
 }

@@ -201,7 +201,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
     // Messages still waiting stay in the outbox; the next start sends them.
     await mail.stop();
     await stopSearch(db);
-    await new Promise<void>((resolve) => store.close ? (store.close(), resolve()) : resolve());
+    await new Promise<void>((resolve) => (store.close ? (store.close(), resolve()) : resolve()));
     await sessionPool.end().catch(() => {});
   };
   return app;

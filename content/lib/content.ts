@@ -82,9 +82,7 @@ const ScenarioPerson = z.strictObject({
   /** A demo sign-in this person is, when they have one (seeds/01-demo-organisation.ts). */
   email: z.string().nullable(),
 });
-const ScenarioApplicator = z
-  .object({ line: z.string(), story: z.string().nullable().optional(), cyclesAtStart: z.number().int().min(0) })
-  .catchall(z.unknown());
+const ScenarioApplicator = z.object({ line: z.string(), story: z.string().nullable().optional(), cyclesAtStart: z.number().int().min(0) }).catchall(z.unknown());
 const ScenarioStory = z.strictObject({
   key: z.string().regex(KEY),
   summary: z.string().min(1),

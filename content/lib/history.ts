@@ -72,7 +72,13 @@ export async function historyContext(db: Knex, organisationId: number, opts: { s
     if (row) guides.set(g.key, { guideId: Number(row.guideId), versionId: Number(row.versionId), content: row.content as GuideContent });
   }
   const articles = new Map<string, number>();
-  for (const row of await db('articles').where({ organisation_id: organisationId }).whereIn('slug', set.articles.map((a) => a.key)).select('id', 'slug')) {
+  for (const row of await db('articles')
+    .where({ organisation_id: organisationId })
+    .whereIn(
+      'slug',
+      set.articles.map((a) => a.key),
+    )
+    .select('id', 'slug')) {
     articles.set(String(row.slug), Number(row.id));
   }
   const users = new Map<string, number>((await db('users').select('id', 'email')).map((r) => [String(r.email).toLowerCase(), Number(r.id)]));
@@ -217,8 +223,6 @@ export interface PlanInput {
 
 type ScenarioApplicator = Scenario['applicators'][number] & Record<string, unknown>;
 
-
-
 // The controller swap that restarts one counter: a planned event, not a story of its own.
 const CONTROLLER_SWAP = { tags: ['V-103', 'V-101', 'G-501'], day: 212 };
 
@@ -321,7 +325,10 @@ function calculatorCandidates(step: MeasureStep): Map<string, number[]> {
   const result = new Map<string, number[]>();
   for (const [band, list] of byBand) {
     list.sort((a, b) => a.edge - b.edge || a.value - b.value);
-    result.set(band, list.slice(0, 15).map((c) => c.value));
+    result.set(
+      band,
+      list.slice(0, 15).map((c) => c.value),
+    );
   }
   calcCache.set(step, result);
   return result;
@@ -625,13 +632,15 @@ export function planHistory(input: PlanInput): HistoryPlan {
   };
 
   const dayShift = () => 6 * 60 + random() * 13 * 60;
-  const electricOrAir = (sim: Sim): Steer => (step) => {
-    if (step.kind !== 'ask') return undefined;
-    const ids = step.choices.map((c) => c.id);
-    if (ids.includes('electric') && ids.includes('air')) return sim.electric ? 'electric' : 'air';
-    if (ids.includes('hot-melt') && ids.includes('other')) return sim.app.fluidFamily === 'hot-melt' ? 'hot-melt' : 'other';
-    return undefined;
-  };
+  const electricOrAir =
+    (sim: Sim): Steer =>
+    (step) => {
+      if (step.kind !== 'ask') return undefined;
+      const ids = step.choices.map((c) => c.id);
+      if (ids.includes('electric') && ids.includes('air')) return sim.electric ? 'electric' : 'air';
+      if (ids.includes('hot-melt') && ids.includes('other')) return sim.app.fluidFamily === 'hot-melt' ? 'hot-melt' : 'other';
+      return undefined;
+    };
   const fixedOutcome = () => ({ outcome: 'fixed' as const });
 
   let skipWalks = 0;
@@ -907,7 +916,9 @@ export function planHistory(input: PlanInput): HistoryPlan {
     }
   }
   // The latest count for every valve, so the dashboard's "cycles now" is this week's.
-  for (const sim of sims) if (sim.app.status === 'running' && plan.readings[sim.lastReadingRef]?.readOn !== isoDate(dayDate(HISTORY_DAYS))) addReading(sim, HISTORY_DAYS, 'manual', sim.siteKey === 'orrin-vale' ? 'author2@example.com' : 'tech@example.com');
+  for (const sim of sims)
+    if (sim.app.status === 'running' && plan.readings[sim.lastReadingRef]?.readOn !== isoDate(dayDate(HISTORY_DAYS)))
+      addReading(sim, HISTORY_DAYS, 'manual', sim.siteKey === 'orrin-vale' ? 'author2@example.com' : 'tech@example.com');
   return plan;
 }
 
@@ -917,7 +928,10 @@ export function planHistory(input: PlanInput): HistoryPlan {
 export async function hasHistory(db: Knex, organisationId: number, scenario: Scenario): Promise<boolean> {
   const site = scenario.sites[0];
   if (site && (await db('sites').where({ organisation_id: organisationId }).whereRaw('lower(name) = lower(?)', [site.name]).first('id'))) return true;
-  const old = await db('walks').where({ organisation_id: organisationId }).where('started_at', '<', new Date(Date.now() - 30 * DAY)).first('id');
+  const old = await db('walks')
+    .where({ organisation_id: organisationId })
+    .where('started_at', '<', new Date(Date.now() - 30 * DAY))
+    .first('id');
   return Boolean(old);
 }
 

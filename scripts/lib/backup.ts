@@ -30,7 +30,11 @@ export function pgTool(tool: string): string {
   const fromEnv = process.env.PG_BINDIR;
   if (fromEnv && existsSync(join(fromEnv, tool))) return join(fromEnv, tool);
   const base = '/usr/lib/postgresql';
-  const versions = existsSync(base) ? readdirSync(base).filter((v) => existsSync(join(base, v, 'bin', tool))).sort((a, b) => Number(b) - Number(a)) : [];
+  const versions = existsSync(base)
+    ? readdirSync(base)
+        .filter((v) => existsSync(join(base, v, 'bin', tool)))
+        .sort((a, b) => Number(b) - Number(a))
+    : [];
   if (!versions.length) throw new Error(`${tool} was not found: install Debian's postgresql-client or set PG_BINDIR`);
   return join(base, versions[0], 'bin', tool);
 }
@@ -149,9 +153,7 @@ export async function restore(opts: FilesSource & { file: string; databaseUrl: s
     for (const rel of Object.keys(manifest.files)) await storage.put(rel, readFileSync(join(work, 'files', rel)));
 
     const restored = await tableDigests(client);
-    const differ = Object.keys({ ...manifest.tables, ...restored }).filter(
-      (t) => manifest.tables[t]?.rows !== restored[t]?.rows || manifest.tables[t]?.md5 !== restored[t]?.md5,
-    );
+    const differ = Object.keys({ ...manifest.tables, ...restored }).filter((t) => manifest.tables[t]?.rows !== restored[t]?.rows || manifest.tables[t]?.md5 !== restored[t]?.md5);
     if (differ.length) throw new Error(`After restoring, these tables differ from the backup: ${differ.join(', ')}`);
     return manifest;
   } finally {

@@ -12,9 +12,7 @@ function newest(path: string): number {
 
 export async function buildClientIfStale(log = console.log): Promise<void> {
   const built = join(projectRoot, 'dist', 'index.html');
-  const sources = Math.max(
-    ...['src', 'index.html', 'vite.config.ts', 'tailwind.config.ts', 'package-lock.json'].map((p) => newest(join(projectRoot, p))),
-  );
+  const sources = Math.max(...['src', 'index.html', 'vite.config.ts', 'tailwind.config.ts', 'package-lock.json'].map((p) => newest(join(projectRoot, p))));
   if (existsSync(built) && statSync(built).mtimeMs >= sources) return;
   log('Building the client (vite build)...');
   const { build } = await import('vite');

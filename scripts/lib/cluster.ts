@@ -46,12 +46,9 @@ function findBinDir(log: (s: string) => void): string {
   let dir = search();
   if (dir) return dir;
   if (!isRoot) {
-    throw new Error(
-      'PostgreSQL is not installed. Run as root:\n  apt-get update && apt-get install -y postgresql postgresql-contrib\n' +
-        'or set DATABASE_URL to an existing database.',
-    );
+    throw new Error('PostgreSQL is not installed. Run as root:\n  apt-get update && apt-get install -y postgresql postgresql-contrib\n' + 'or set DATABASE_URL to an existing database.');
   }
-  log('PostgreSQL is missing: installing Debian\'s postgresql package (apt-get)...');
+  log("PostgreSQL is missing: installing Debian's postgresql package (apt-get)...");
   execFileSync('apt-get', ['update'], { stdio: 'inherit' });
   execFileSync('apt-get', ['install', '-y', 'postgresql', 'postgresql-contrib'], {
     stdio: 'inherit',
@@ -136,10 +133,7 @@ export async function ensureCluster(opts: ClusterOptions): Promise<Cluster> {
         for (const p of [root, socketDir, pwFile]) chownSync(p, pgUid(), pgGid());
       }
       log(`Creating a private PostgreSQL cluster in ${pgData} ...`);
-      runPg(binDir, 'initdb', [
-        '-D', pgData, '-U', 'app', `--pwfile=${pwFile}`, '--auth-local=trust', '--auth-host=scram-sha-256',
-        '-E', 'UTF8', '--locale=C.UTF-8',
-      ]);
+      runPg(binDir, 'initdb', ['-D', pgData, '-U', 'app', `--pwfile=${pwFile}`, '--auth-local=trust', '--auth-host=scram-sha-256', '-E', 'UTF8', '--locale=C.UTF-8']);
       writeFileSync(stateFile, JSON.stringify(state), { mode: 0o600 });
     } finally {
       process.umask(old);

@@ -1,9 +1,7 @@
 // Reads and validates the environment once at start; a bad variable stops the server with its name.
 import { z } from 'zod';
 
-const bool = z
-  .enum(['1', '0', 'true', 'false', 'yes', 'no'])
-  .transform((v) => v === '1' || v === 'true' || v === 'yes');
+const bool = z.enum(['1', '0', 'true', 'false', 'yes', 'no']).transform((v) => v === '1' || v === 'true' || v === 'yes');
 
 const optional = <T extends z.ZodType>(t: T) => z.preprocess((v) => (v === '' ? undefined : v), t.optional());
 
@@ -88,7 +86,10 @@ export const ConfigSchema = z.object({
   PUBLIC_ORIGIN: z.url().optional(),
   LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
   UPLOAD_LIMIT_MB: z.coerce.number().min(1).max(100).default(15),
-  JSON_BODY_LIMIT: z.string().regex(/^\d+(kb|mb)$/i).default('1mb'),
+  JSON_BODY_LIMIT: z
+    .string()
+    .regex(/^\d+(kb|mb)$/i)
+    .default('1mb'),
   // Search uses Meilisearch only when both are set; otherwise PostgreSQL answers alone.
   MEILI_URL: z.preprocess((v) => (v === '' ? undefined : v), z.url().optional()),
   MEILI_API_KEY: z.preprocess((v) => (v === '' ? undefined : v), z.string().optional()),
@@ -96,7 +97,13 @@ export const ConfigSchema = z.object({
   MEILI_TIMEOUT_MS: z.coerce.number().int().min(20).max(30_000).default(300),
   // Mail: a real SMTP server when SMTP_URL or SMTP_HOST is set; otherwise the local fake keeps
   // every message in the database (FAKE_SMTP=1 forces the fake, 0 turns it off).
-  SMTP_URL: z.preprocess((v) => (v === '' ? undefined : v), z.string().regex(/^smtps?:\/\//, 'must be an smtp:// or smtps:// URL').optional()),
+  SMTP_URL: z.preprocess(
+    (v) => (v === '' ? undefined : v),
+    z
+      .string()
+      .regex(/^smtps?:\/\//, 'must be an smtp:// or smtps:// URL')
+      .optional(),
+  ),
   SMTP_HOST: z.preprocess((v) => (v === '' ? undefined : v), z.string().min(1).optional()),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
   SMTP_SECURE: bool.default(false),

@@ -64,7 +64,10 @@ export const auditRepository = {
       .clone()
       .leftJoin('users as u', 'u.id', 'e.user_id')
       .select('e.*', 'u.name as user_name', 'u.email as user_email')
-      .orderBy([{ column: 'e.created_at', order: 'desc' }, { column: 'e.id', order: 'desc' }])
+      .orderBy([
+        { column: 'e.created_at', order: 'desc' },
+        { column: 'e.id', order: 'desc' },
+      ])
       .limit(q.pageSize)
       .offset((q.page - 1) * q.pageSize);
     return {

@@ -27,9 +27,7 @@ export function sameOriginGuard(publicOrigin?: string): RequestHandler {
       }
     }
     if (!source || !allowed.has(source)) {
-      return next(
-        AppError.forbidden('This request did not come from a Beadpath page (missing or foreign Origin header), so it was refused.'),
-      );
+      return next(AppError.forbidden('This request did not come from a Beadpath page (missing or foreign Origin header), so it was refused.'));
     }
     next();
   };

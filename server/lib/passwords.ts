@@ -7,9 +7,7 @@ const p = 1;
 const KEYLEN = 32;
 
 function scrypt(password: string, salt: Buffer, opts: ScryptOptions): Promise<Buffer> {
-  return new Promise((resolve, reject) =>
-    scryptCb(password, salt, KEYLEN, opts, (err, key) => (err ? reject(err) : resolve(key))),
-  );
+  return new Promise((resolve, reject) => scryptCb(password, salt, KEYLEN, opts, (err, key) => (err ? reject(err) : resolve(key))));
 }
 
 export async function hashPassword(password: string): Promise<string> {

@@ -8,8 +8,23 @@ import { FILE_SRC, SAFE_HREF, isHazard, richTextExtensions, type TipTapNode } fr
 import { AppError } from './app-error';
 
 const NODE_TYPES = new Set([
-  'doc', 'paragraph', 'text', 'heading', 'bulletList', 'orderedList', 'listItem', 'blockquote', 'codeBlock',
-  'horizontalRule', 'hardBreak', 'image', 'table', 'tableRow', 'tableHeader', 'tableCell', 'caution',
+  'doc',
+  'paragraph',
+  'text',
+  'heading',
+  'bulletList',
+  'orderedList',
+  'listItem',
+  'blockquote',
+  'codeBlock',
+  'horizontalRule',
+  'hardBreak',
+  'image',
+  'table',
+  'tableRow',
+  'tableHeader',
+  'tableCell',
+  'caution',
 ]);
 const MARK_TYPES = new Set(['bold', 'italic', 'strike', 'code', 'link', 'underline']);
 
@@ -17,8 +32,33 @@ const window = new JSDOM('').window;
 const purify = createDOMPurify(window as unknown as Parameters<typeof createDOMPurify>[0]);
 
 const ALLOWED_TAGS = [
-  'p', 'br', 'strong', 'em', 's', 'u', 'code', 'pre', 'a', 'h2', 'h3', 'ul', 'ol', 'li', 'blockquote', 'hr', 'img',
-  'table', 'tbody', 'thead', 'tr', 'th', 'td', 'colgroup', 'col', 'aside', 'div',
+  'p',
+  'br',
+  'strong',
+  'em',
+  's',
+  'u',
+  'code',
+  'pre',
+  'a',
+  'h2',
+  'h3',
+  'ul',
+  'ol',
+  'li',
+  'blockquote',
+  'hr',
+  'img',
+  'table',
+  'tbody',
+  'thead',
+  'tr',
+  'th',
+  'td',
+  'colgroup',
+  'col',
+  'aside',
+  'div',
 ];
 const ALLOWED_ATTR = ['href', 'target', 'rel', 'src', 'alt', 'title', 'colspan', 'rowspan', 'class', 'data-caution', 'role', 'aria-label', 'start'];
 

@@ -53,9 +53,33 @@ const SearchPage = lazyPage(() => import('@/features/search/components/search-pa
 const SearchAdminPage = lazyPage(() => import('@/features/search/components/search-page'), 'SearchAdminPage');
 
 export const router = createBrowserRouter([
-  { path: paths.signIn, element: <Suspense><SignInPage /></Suspense>, errorElement: <RouteError /> },
-  { path: paths.invite(), element: <Suspense><InvitePage /></Suspense>, errorElement: <RouteError /> },
-  { path: paths.resetPassword, element: <Suspense><ResetPasswordPage /></Suspense>, errorElement: <RouteError /> },
+  {
+    path: paths.signIn,
+    element: (
+      <Suspense>
+        <SignInPage />
+      </Suspense>
+    ),
+    errorElement: <RouteError />,
+  },
+  {
+    path: paths.invite(),
+    element: (
+      <Suspense>
+        <InvitePage />
+      </Suspense>
+    ),
+    errorElement: <RouteError />,
+  },
+  {
+    path: paths.resetPassword,
+    element: (
+      <Suspense>
+        <ResetPasswordPage />
+      </Suspense>
+    ),
+    errorElement: <RouteError />,
+  },
   {
     element: <AppLayout />,
     errorElement: <RouteError />,
@@ -66,29 +90,176 @@ export const router = createBrowserRouter([
           { index: true, element: <HomeRoute /> },
           { path: paths.account, element: <AccountPage /> },
           { path: paths.help, element: <HelpPage /> },
-          { path: paths.calculators, element: <RequirePermission permission="calculators:use"><CalculatorListPage /></RequirePermission> },
-          { path: paths.calculator(), element: <RequirePermission permission="calculators:use"><CalculatorPage /></RequirePermission> },
-          { path: paths.articles, element: <RequirePermission permission="articles:read"><ArticleListPage /></RequirePermission> },
-          { path: paths.articleNew, element: <RequirePermission permission="articles:write"><ArticleEditorPage /></RequirePermission> },
-          { path: paths.article(), element: <RequirePermission permission="articles:read"><ArticlePage /></RequirePermission> },
-          { path: paths.articleEdit(), element: <RequirePermission permission="articles:write"><ArticleEditorPage /></RequirePermission> },
-          { path: paths.articleHistory(), element: <RequirePermission permission="articles:write"><ArticleHistoryPage /></RequirePermission> },
-          { path: paths.guides, element: <RequirePermission permission="guides:read"><GuideListPage /></RequirePermission> },
-          { path: paths.guide(), element: <RequirePermission permission="guides:read"><GuidePage /></RequirePermission> },
-          { path: paths.guidePrint(), element: <RequirePermission permission="guides:read"><GuidePrintPage /></RequirePermission> },
-          { path: paths.guideEdit(), element: <RequirePermission permission="guides:write"><GuideEditorPage /></RequirePermission> },
-          { path: paths.guideWalk(), element: <RequirePermission permission="walks:run"><WalkStartPage /></RequirePermission> },
+          {
+            path: paths.calculators,
+            element: (
+              <RequirePermission permission="calculators:use">
+                <CalculatorListPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.calculator(),
+            element: (
+              <RequirePermission permission="calculators:use">
+                <CalculatorPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.articles,
+            element: (
+              <RequirePermission permission="articles:read">
+                <ArticleListPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.articleNew,
+            element: (
+              <RequirePermission permission="articles:write">
+                <ArticleEditorPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.article(),
+            element: (
+              <RequirePermission permission="articles:read">
+                <ArticlePage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.articleEdit(),
+            element: (
+              <RequirePermission permission="articles:write">
+                <ArticleEditorPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.articleHistory(),
+            element: (
+              <RequirePermission permission="articles:write">
+                <ArticleHistoryPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.guides,
+            element: (
+              <RequirePermission permission="guides:read">
+                <GuideListPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.guide(),
+            element: (
+              <RequirePermission permission="guides:read">
+                <GuidePage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.guidePrint(),
+            element: (
+              <RequirePermission permission="guides:read">
+                <GuidePrintPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.guideEdit(),
+            element: (
+              <RequirePermission permission="guides:write">
+                <GuideEditorPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.guideWalk(),
+            element: (
+              <RequirePermission permission="walks:run">
+                <WalkStartPage />
+              </RequirePermission>
+            ),
+          },
           { path: paths.walk(), element: <WalkRunnerPage /> },
           { path: paths.walkSummary(), element: <WalkSummaryPage /> },
-          { path: paths.search, element: <RequirePermission permission="search:use"><SearchPage /></RequirePermission> },
-          { path: paths.adminSearch, element: <RequirePermission permission="search:admin"><SearchAdminPage /></RequirePermission> },
-          { path: `${paths.applicators}/*`, element: <RequirePermission permission="assets:read"><AssetsRoutes /></RequirePermission> },
-          { path: `${paths.cases}/*`, element: <RequirePermission permission="cases:read"><CasesRoutes /></RequirePermission> },
-          { path: paths.adminOutbox, element: <RequirePermission permission="mail:outbox"><OutboxPage /></RequirePermission> },
-          { path: paths.adminAudit, element: <RequirePermission permission="audit:read"><AuditPage /></RequirePermission> },
-          { path: `${paths.insights}/*`, element: <RequirePermission permission="insights:read"><InsightsRoutes /></RequirePermission> },
-          { path: paths.adminSettings, element: <RequirePermission permission="settings:manage"><SettingsPage /></RequirePermission> },
-          { path: paths.adminUsers, element: <RequirePermission permission="users:manage"><UsersPage /></RequirePermission> },
+          {
+            path: paths.search,
+            element: (
+              <RequirePermission permission="search:use">
+                <SearchPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.adminSearch,
+            element: (
+              <RequirePermission permission="search:admin">
+                <SearchAdminPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: `${paths.applicators}/*`,
+            element: (
+              <RequirePermission permission="assets:read">
+                <AssetsRoutes />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: `${paths.cases}/*`,
+            element: (
+              <RequirePermission permission="cases:read">
+                <CasesRoutes />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.adminOutbox,
+            element: (
+              <RequirePermission permission="mail:outbox">
+                <OutboxPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.adminAudit,
+            element: (
+              <RequirePermission permission="audit:read">
+                <AuditPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: `${paths.insights}/*`,
+            element: (
+              <RequirePermission permission="insights:read">
+                <InsightsRoutes />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.adminSettings,
+            element: (
+              <RequirePermission permission="settings:manage">
+                <SettingsPage />
+              </RequirePermission>
+            ),
+          },
+          {
+            path: paths.adminUsers,
+            element: (
+              <RequirePermission permission="users:manage">
+                <UsersPage />
+              </RequirePermission>
+            ),
+          },
           { path: '*', element: <NotFoundPage /> },
         ],
       },

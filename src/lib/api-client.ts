@@ -45,14 +45,7 @@ export async function api<T>(path: string, opts: RequestOptions = {}): Promise<T
   }
   if (!res.ok) {
     const e = (data as ApiErrorBody | undefined)?.error;
-    throw new ApiError(
-      res.status,
-      e?.code ?? 'internal',
-      e?.message ?? `The server answered ${res.status} ${res.statusText}`,
-      e?.fields ?? {},
-      e?.requestId,
-      e?.details,
-    );
+    throw new ApiError(res.status, e?.code ?? 'internal', e?.message ?? `The server answered ${res.status} ${res.statusText}`, e?.fields ?? {}, e?.requestId, e?.details);
   }
   return data as T;
 }

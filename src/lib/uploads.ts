@@ -51,7 +51,16 @@ export function sendWithProgress<T>(method: 'POST' | 'PUT' | 'PATCH', url: strin
         options.onProgress?.(1);
         resolve(parsed as T);
       } else {
-        reject(new ApiError(xhr.status, (parsed.error?.code ?? 'internal') as ErrorCode, parsed.error?.message ?? `The server answered ${xhr.status}`, parsed.error?.fields ?? {}, parsed.error?.requestId, parsed.error?.details));
+        reject(
+          new ApiError(
+            xhr.status,
+            (parsed.error?.code ?? 'internal') as ErrorCode,
+            parsed.error?.message ?? `The server answered ${xhr.status}`,
+            parsed.error?.fields ?? {},
+            parsed.error?.requestId,
+            parsed.error?.details,
+          ),
+        );
       }
     };
     xhr.onerror = () => reject(new ApiError(0, 'network', 'It could not be sent: no connection.'));

@@ -74,7 +74,7 @@ export const DEFAULT_CAUSES: CauseDefinition[] = [
   { code: 'seal-incompatible', label: 'Seal material not compatible with the fluid', component: 'dynamic-seals' },
   { code: 'needle-shaft-scored', label: 'Needle shaft scored', component: 'needle' },
   { code: 'regulator-drift', label: 'Supply pressure regulator drift', component: 'supply-regulator' },
-  { code: 'fluid-pressure-high', label: 'Fluid pressure too high' , component: 'supply-regulator'},
+  { code: 'fluid-pressure-high', label: 'Fluid pressure too high', component: 'supply-regulator' },
   { code: 'air-pressure-low', label: 'Air pressure low or restricted air supply', component: 'air-valve' },
   { code: 'exhaust-restricted', label: 'Slow exhaust from the air side', component: 'air-valve' },
   { code: 'viscosity-out-of-range', label: 'Viscosity out of range (temperature or batch)' },

@@ -59,18 +59,10 @@ function u(unit: string, label: string, factor: number, extra: { offset?: number
 }
 const imp = { imperial: true };
 
-const TEMPERATURE_UNITS: readonly UnitSpec[] = [
-  u('degC', '°C', 1, { offset: 273.15 }),
-  u('degF', '°F', 5 / 9, { offset: 459.67, imperial: true }),
-  u('K', 'K', 1),
-];
+const TEMPERATURE_UNITS: readonly UnitSpec[] = [u('degC', '°C', 1, { offset: 273.15 }), u('degF', '°F', 5 / 9, { offset: 459.67, imperial: true }), u('K', 'K', 1)];
 
 // A temperature step has no zero point to shift, so only the degree size matters.
-const TEMPERATURE_DIFFERENCE_UNITS: readonly UnitSpec[] = [
-  u('degC', '°C', 1),
-  u('degF', '°F', 5 / 9, imp),
-  u('K', 'K', 1),
-];
+const TEMPERATURE_DIFFERENCE_UNITS: readonly UnitSpec[] = [u('degC', '°C', 1), u('degF', '°F', 5 / 9, imp), u('K', 'K', 1)];
 
 /** Units per kind; the first spelling is the default output unit of that kind. */
 export const UNITS: Readonly<Record<QuantityKind, readonly UnitSpec[]>> = {
@@ -96,13 +88,7 @@ export const UNITS: Readonly<Record<QuantityKind, readonly UnitSpec[]>> = {
     u('in3', 'in³', CUBIC_INCH, imp),
     u('floz', 'US fl oz', US_FLUID_OUNCE, imp),
   ],
-  flowRate: [
-    u('mL/s', 'mL/s', 1e-6),
-    u('m3/s', 'm³/s', 1),
-    u('uL/s', 'µL/s', 1e-9),
-    u('mL/min', 'mL/min', 1e-6 / 60),
-    u('L/min', 'L/min', 1e-3 / 60),
-  ],
+  flowRate: [u('mL/s', 'mL/s', 1e-6), u('m3/s', 'm³/s', 1), u('uL/s', 'µL/s', 1e-9), u('mL/min', 'mL/min', 1e-6 / 60), u('L/min', 'L/min', 1e-3 / 60)],
   mass: [u('g', 'g', 1e-3), u('kg', 'kg', 1), u('mg', 'mg', 1e-6), u('lb', 'lb', POUND, imp), u('oz', 'oz', POUND / 16, imp)],
   massPerLength: [u('g/m', 'g/m', 1e-3), u('kg/m', 'kg/m', 1)],
   massRate: [u('g/h', 'g/h', 1e-3 / 3600), u('kg/h', 'kg/h', 1 / 3600), u('lb/h', 'lb/h', POUND / 3600, imp)],

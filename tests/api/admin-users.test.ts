@@ -62,7 +62,10 @@ describe('admin users', () => {
     const { agent: admin } = await t.signIn(['admin']);
     const { agent: tech, user } = await t.signIn(['technician']);
     expect((await tech.get('/api/admin/users')).status).toBe(403);
-    await admin.patch(`/api/admin/users/${user.id}`).send({ roles: ['technician', 'admin'] }).expect(200);
+    await admin
+      .patch(`/api/admin/users/${user.id}`)
+      .send({ roles: ['technician', 'admin'] })
+      .expect(200);
     expect((await tech.get('/api/admin/users')).status).toBe(200);
   });
 
@@ -82,7 +85,10 @@ describe('admin users', () => {
   it('when an admin of one organisation names a user of another, then 404', async () => {
     const { agent } = await t.signIn(['admin']);
     const [org] = await t.db('organisations').insert({ name: 'Elsewhere Ltd' }).returning('id');
-    const [other] = await t.db('users').insert({ organisation_id: org.id, email: 'else@example.com', name: 'Else', roles: ['technician'] }).returning('id');
+    const [other] = await t
+      .db('users')
+      .insert({ organisation_id: org.id, email: 'else@example.com', name: 'Else', roles: ['technician'] })
+      .returning('id');
     const res = await agent.patch(`/api/admin/users/${other.id}`).send({ active: false });
     expect(res.status).toBe(404);
     expect((await t.db('users').where({ id: other.id }).first()).active).toBe(true);

@@ -158,8 +158,14 @@ describe('no lost work', () => {
     const s = await author.put(`/api/articles/${a.id}`).send({ title: a.title, body: doc(para('Use the blue O-ring.'), para('Torque the cap by hand.')), baseVersion: a.version });
     const cmp = await author.get(`/api/articles/${a.id}/compare?from=1&to=2`);
     expect(cmp.status).toBe(200);
-    const removed = cmp.body.comparison.body.filter((c: { change: string }) => c.change === 'removed').map((c: { value: string }) => c.value).join('');
-    const added = cmp.body.comparison.body.filter((c: { change: string }) => c.change === 'added').map((c: { value: string }) => c.value).join('');
+    const removed = cmp.body.comparison.body
+      .filter((c: { change: string }) => c.change === 'removed')
+      .map((c: { value: string }) => c.value)
+      .join('');
+    const added = cmp.body.comparison.body
+      .filter((c: { change: string }) => c.change === 'added')
+      .map((c: { value: string }) => c.value)
+      .join('');
     expect(removed).toContain('green');
     expect(added).toContain('blue');
     const restored = await author.post(`/api/articles/${a.id}/revisions/1/restore`).send({ baseVersion: s.body.article.version });

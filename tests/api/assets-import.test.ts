@@ -16,7 +16,10 @@ const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString(
 
 /** A fresh organisation with one admin: each import test starts from nothing. */
 async function emptyOrganisation(): Promise<{ agent: Agent; organisationId: number }> {
-  const [org] = await t.db('organisations').insert({ name: `Import works ${randomBytes(3).toString('hex')}` }).returning('id');
+  const [org] = await t
+    .db('organisations')
+    .insert({ name: `Import works ${randomBytes(3).toString('hex')}` })
+    .returning('id');
   const email = `admin-${randomBytes(4).toString('hex')}@example.com`;
   await t.db('users').insert({ organisation_id: org.id, email, name: 'Import admin', roles: ['admin'], password_hash: await hashPassword(TEST_PASSWORD) });
   const agent = t.agent();
@@ -28,12 +31,15 @@ const csvPost = (agent: Agent, path: string, text: string) => agent.post(path).s
 const count = async (table: string, organisationId: number) => Number((await t.db(table).where({ organisation_id: organisationId }).count('* as n'))[0].n);
 
 async function exportCsv(agent: Agent, path: string): Promise<string> {
-  const res = await agent.get(path).buffer(true).parse((r, cb) => {
-    let data = '';
-    r.setEncoding('utf8');
-    r.on('data', (c: string) => (data += c));
-    r.on('end', () => cb(null, data));
-  });
+  const res = await agent
+    .get(path)
+    .buffer(true)
+    .parse((r, cb) => {
+      let data = '';
+      r.setEncoding('utf8');
+      r.on('data', (c: string) => (data += c));
+      r.on('end', () => cb(null, data));
+    });
   expect(res.status).toBe(200);
   expect(res.headers['content-type']).toMatch(/text\/csv/);
   return res.body as string;
@@ -98,10 +104,22 @@ describe('round trip', () => {
         .send({ lineId: line2.id, tag: '-QE-7', actuation: 'air-operated', airPressureBar: 5.5, status: 'spare', fluidFamily: 'cold-glue', custom: { [guard.id]: false } })
         .expect(201)
     ).body.applicator;
-    await admin.post(`/api/applicators/${a1.id}/readings`).send({ readOn: daysAgo(20), count: 4_000_000 }).expect(201);
-    await admin.post(`/api/applicators/${a1.id}/readings`).send({ readOn: daysAgo(20), count: 4_100_000, note: 'Second read, same day' }).expect(201);
-    await admin.post(`/api/applicators/${a1.id}/readings`).send({ readOn: daysAgo(5), count: 2_000, counterReset: true, note: 'Controller swapped, counter at 2,000' }).expect(201);
-    await admin.post(`/api/applicators/${a2.id}/readings`).send({ readOn: daysAgo(1), count: 77 }).expect(201);
+    await admin
+      .post(`/api/applicators/${a1.id}/readings`)
+      .send({ readOn: daysAgo(20), count: 4_000_000 })
+      .expect(201);
+    await admin
+      .post(`/api/applicators/${a1.id}/readings`)
+      .send({ readOn: daysAgo(20), count: 4_100_000, note: 'Second read, same day' })
+      .expect(201);
+    await admin
+      .post(`/api/applicators/${a1.id}/readings`)
+      .send({ readOn: daysAgo(5), count: 2_000, counterReset: true, note: 'Controller swapped, counter at 2,000' })
+      .expect(201);
+    await admin
+      .post(`/api/applicators/${a2.id}/readings`)
+      .send({ readOn: daysAgo(1), count: 77 })
+      .expect(201);
 
     const before: Record<string, string> = {};
     for (const [kind, path] of EXPORTS) before[kind] = await exportCsv(admin, path);
@@ -173,7 +191,7 @@ describe('preview and commit', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.result).toMatchObject({ imported: 1, skippedRows: 6 });
     expect(res.body.result.skipped.map((x: { row: number }) => x.row)).toEqual([3, 4, 5, 6, 7, 8]);
-    expect((await t.db('applicators').where({ organisation_id: org.organisationId }).orderBy('tag').pluck('tag'))).toEqual(['ML-1', 'ML-2']);
+    expect(await t.db('applicators').where({ organisation_id: org.organisationId }).orderBy('tag').pluck('tag')).toEqual(['ML-1', 'ML-2']);
   });
 
   it('when counter readings in a file go backwards or lie in the future, then those rows are named; a reset row is accepted', async () => {

@@ -29,7 +29,16 @@ async function publishGuide() {
   return t.db.transaction(async (trx) => {
     const [guide] = await trx('guides').insert({ organisation_id: t.organisationId, status: 'active' }).returning('id');
     const [version] = await trx('guide_versions')
-      .insert({ guide_id: guide.id, number: 1, state: 'published', title: SAMPLE_GUIDE_META.title, symptom: SAMPLE_GUIDE_META.symptom, tags: SAMPLE_GUIDE_META.tags, content: JSON.stringify(SAMPLE_GUIDE), published_at: trx.fn.now() })
+      .insert({
+        guide_id: guide.id,
+        number: 1,
+        state: 'published',
+        title: SAMPLE_GUIDE_META.title,
+        symptom: SAMPLE_GUIDE_META.symptom,
+        tags: SAMPLE_GUIDE_META.tags,
+        content: JSON.stringify(SAMPLE_GUIDE),
+        published_at: trx.fn.now(),
+      })
       .returning('id');
     await trx('guides').where({ id: guide.id }).update({ published_version_id: version.id });
     return guide.id as number;
@@ -100,7 +109,12 @@ describe('sites, lines and tags', () => {
     const again = await admin.post('/api/applicators').send(electric({ tag: a.tag.toLowerCase() }));
     expect(again.status).toBe(409);
     expect(again.body.error.fields.tag).toMatch(/Already used on North works/);
-    const otherSite = (await admin.post('/api/sites').send({ name: `South works ${++n}` }).expect(201)).body.site.id;
+    const otherSite = (
+      await admin
+        .post('/api/sites')
+        .send({ name: `South works ${++n}` })
+        .expect(201)
+    ).body.site.id;
     const otherLine = (await admin.post('/api/lines').send({ siteId: otherSite, name: 'Line 1' }).expect(201)).body.line.id;
     expect((await admin.post('/api/applicators').send(electric({ tag: a.tag, lineId: otherLine }))).status).toBe(201);
   });
@@ -143,7 +157,12 @@ describe('applicator specs', () => {
   });
 
   it('when the organisation adds its own field, then applicators take typed values for it without a code change', async () => {
-    const field = (await admin.post('/api/applicators/fields').send({ name: `Coil resistance ${++n}`, type: 'number', unit: 'ohm' }).expect(201)).body.field;
+    const field = (
+      await admin
+        .post('/api/applicators/fields')
+        .send({ name: `Coil resistance ${++n}`, type: 'number', unit: 'ohm' })
+        .expect(201)
+    ).body.field;
     const bad = await admin.post('/api/applicators').send(electric({ custom: { [field.id]: 'high' } }));
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields[`custom.${field.id}`]).toMatch(/must be a number in ohm/);
@@ -174,7 +193,10 @@ describe('applicator specs', () => {
 describe('cycle counter', () => {
   it('when a reading goes backwards it is refused unless marked as a counter reset; a future date is refused', async () => {
     const a = await createApplicator();
-    await tech.post(`/api/applicators/${a.id}/readings`).send({ readOn: daysAgo(20), count: 5_000_000 }).expect(201);
+    await tech
+      .post(`/api/applicators/${a.id}/readings`)
+      .send({ readOn: daysAgo(20), count: 5_000_000 })
+      .expect(201);
     const back = await tech.post(`/api/applicators/${a.id}/readings`).send({ readOn: daysAgo(10), count: 4_000_000 });
     expect(back.status).toBe(400);
     expect(back.body.error.fields.count).toMatch(/cannot go backwards/);
@@ -191,7 +213,10 @@ describe('cycle counter', () => {
 
   it('when readings exist, then the page carries the counter forward and forecasts seat and needle with common-practice intervals', async () => {
     const a = await createApplicator();
-    await tech.post(`/api/applicators/${a.id}/readings`).send({ readOn: daysAgo(10), count: 10_000_000 }).expect(201);
+    await tech
+      .post(`/api/applicators/${a.id}/readings`)
+      .send({ readOn: daysAgo(10), count: 10_000_000 })
+      .expect(201);
     const res = await tech.post(`/api/applicators/${a.id}/readings`).send({ readOn: today, count: 20_000_000 });
     const page = res.body.applicator;
     expect(page.counter).toMatchObject({ lastCount: 20_000_000, rateSource: 'readings', cyclesPerDay: 1_000_000, stale: false });
@@ -204,7 +229,10 @@ describe('cycle counter', () => {
 describe('service events', () => {
   it('when a service is recorded with a cause, parts and the counter, then it shows in the history and restarts the seat forecast', async () => {
     const a = await createApplicator(electric({ seatIntervalCycles: 50_000_000 }));
-    await tech.post(`/api/applicators/${a.id}/readings`).send({ readOn: daysAgo(30), count: 30_000_000 }).expect(201);
+    await tech
+      .post(`/api/applicators/${a.id}/readings`)
+      .send({ readOn: daysAgo(30), count: 30_000_000 })
+      .expect(201);
     const res = await tech.post(`/api/applicators/${a.id}/service-events`).send({
       performedOn: daysAgo(5),
       actions: ['seat-replaced', 'cleaned'],
@@ -216,9 +244,18 @@ describe('service events', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const page = res.body.applicator;
     expect(page.serviceEvents).toHaveLength(1);
-    expect(page.serviceEvents[0]).toMatchObject({ actions: ['seat-replaced', 'cleaned'], causeCode: 'seat-worn', causeLabel: 'Seat worn or damaged', cycleCount: 48_000_000, performedBy: 'Test technician' });
+    expect(page.serviceEvents[0]).toMatchObject({
+      actions: ['seat-replaced', 'cleaned'],
+      causeCode: 'seat-worn',
+      causeLabel: 'Seat worn or damaged',
+      cycleCount: 48_000_000,
+      performedBy: 'Test technician',
+    });
     expect(page.serviceEvents[0].parts).toEqual([{ name: 'Seat kit', partNumber: 'LK-SK-08', quantity: 1 }]);
-    expect(page.readings.map((r: { count: number; source: string }) => [r.count, r.source])).toEqual([[30_000_000, 'manual'], [48_000_000, 'service']]);
+    expect(page.readings.map((r: { count: number; source: string }) => [r.count, r.source])).toEqual([
+      [30_000_000, 'manual'],
+      [48_000_000, 'service'],
+    ]);
     const seat = page.forecasts.find((f: { part: string }) => f.part === 'seat');
     expect(seat).toMatchObject({ since: daysAgo(5), thresholdSource: 'applicator', threshold: 50_000_000 });
     expect(seat.cyclesSince).toBeLessThan(48_000_000);
@@ -226,7 +263,10 @@ describe('service events', () => {
 
   it('when the cause, photos or cycle count are wrong, then each is named and nothing is kept', async () => {
     const a = await createApplicator();
-    await tech.post(`/api/applicators/${a.id}/readings`).send({ readOn: daysAgo(3), count: 900 }).expect(201);
+    await tech
+      .post(`/api/applicators/${a.id}/readings`)
+      .send({ readOn: daysAgo(3), count: 900 })
+      .expect(201);
     const cause = await tech.post(`/api/applicators/${a.id}/service-events`).send({ performedOn: today, actions: ['cleaned'], causeCode: 'gremlins' });
     expect(cause.body.error.fields.causeCode).toMatch(/Unknown cause/);
     const photo = await tech.post(`/api/applicators/${a.id}/service-events`).send({ performedOn: today, actions: ['cleaned'], fileIds: ['5f1d7c2e-8a40-4c57-9a3c-2f4f1e0b7d11'] });
@@ -257,13 +297,19 @@ describe('walks on an applicator', () => {
     const b = await createApplicator();
     const wrong = await tech.post(`/api/applicators/${b.id}/service-events`).send({ performedOn: today, actions: ['cleaned'], walkId });
     expect(wrong.body.error.fields.walkId).toMatch(/another applicator/);
-    await tech.post(`/api/applicators/${a.id}/service-events`).send({ performedOn: today, actions: ['cleaned'], walkId }).expect(201);
+    await tech
+      .post(`/api/applicators/${a.id}/service-events`)
+      .send({ performedOn: today, actions: ['cleaned'], walkId })
+      .expect(201);
     const twice = await tech.post(`/api/applicators/${a.id}/service-events`).send({ performedOn: today, actions: ['cleaned'], walkId });
     expect(twice.status).toBe(409);
   });
 
   it('when a walk names an applicator of another organisation, then it is refused naming applicatorId', async () => {
-    const [org] = await t.db('organisations').insert({ name: `Other ${randomBytes(3).toString('hex')}` }).returning('id');
+    const [org] = await t
+      .db('organisations')
+      .insert({ name: `Other ${randomBytes(3).toString('hex')}` })
+      .returning('id');
     const [s] = await t.db('sites').insert({ organisation_id: org.id, name: 'Theirs' }).returning('id');
     const [l] = await t.db('lines').insert({ organisation_id: org.id, site_id: s.id, name: 'L' }).returning('id');
     const [x] = await t.db('applicators').insert({ organisation_id: org.id, site_id: s.id, line_id: l.id, tag: 'X-1', actuation: 'electric' }).returning('id');

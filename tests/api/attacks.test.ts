@@ -81,7 +81,11 @@ describe('SQL injection', () => {
     let sent = 0;
     for (const r of t.app.locals.routeTable) {
       if (r.method !== 'get') continue;
-      const path = r.path.replace(/:token/g, 'x'.repeat(32)).replace(/:id|:readingId|:eventId|:number/g, '1').replace(/:kind/g, 'sites').replace(/:variant/g, 'display');
+      const path = r.path
+        .replace(/:token/g, 'x'.repeat(32))
+        .replace(/:id|:readingId|:eventId|:number/g, '1')
+        .replace(/:kind/g, 'sites')
+        .replace(/:variant/g, 'display');
       // Every route gets the common names too, in case a handler reads a parameter it does not validate.
       const names = new Set([...(params.get(r.path) ?? []), 'q']);
       for (const name of names) {
@@ -116,9 +120,15 @@ describe('cross-site request forgery', () => {
     let tried = 0;
     for (const r of t.app.locals.routeTable) {
       if (r.method === 'get') continue;
-      const path = r.path.replace(/:token/g, 'x'.repeat(32)).replace(/:id|:readingId|:eventId|:number/g, '1').replace(/:kind/g, 'sites').replace(/:[a-zA-Z]+/g, 'sample');
+      const path = r.path
+        .replace(/:token/g, 'x'.repeat(32))
+        .replace(/:id|:readingId|:eventId|:number/g, '1')
+        .replace(/:kind/g, 'sites')
+        .replace(/:[a-zA-Z]+/g, 'sample');
       for (const header of [{ Origin: 'https://evil.example.net' }, { Origin: 'null', Referer: 'https://evil.example.net/page' }]) {
-        const res = await everyone[r.method](path).set(header).send({ name: 'Forged', email: 'forged@example.com', password: TEST_PASSWORD, roles: ['admin'] });
+        const res = await everyone[r.method](path)
+          .set(header)
+          .send({ name: 'Forged', email: 'forged@example.com', password: TEST_PASSWORD, roles: ['admin'] });
         tried++;
         if (res.status !== 403 || res.body?.error?.code !== 'forbidden') problems.push(`${r.method.toUpperCase()} ${r.path} with ${JSON.stringify(header)} -> ${res.status}`);
       }
@@ -138,7 +148,15 @@ describe('brute force on sign-in', () => {
       const real = await limited.createUser(['technician']);
       const answers: { status: number; body: unknown }[] = [];
       for (const email of [real.email, 'nobody-here@example.com']) {
-        for (let i = 0; i < 3; i++) expect((await limited.agent().post('/api/auth/login').send({ email, password: `guess ${i}` })).status).toBe(401);
+        for (let i = 0; i < 3; i++)
+          expect(
+            (
+              await limited
+                .agent()
+                .post('/api/auth/login')
+                .send({ email, password: `guess ${i}` })
+            ).status,
+          ).toBe(401);
         const res = await limited.agent().post('/api/auth/login').send({ email, password: TEST_PASSWORD });
         answers.push({ status: res.status, body: { ...res.body.error, requestId: undefined } });
       }
@@ -161,7 +179,9 @@ describe('path traversal', () => {
     const filesDir = t.app.locals.filesDir;
     const outsideBefore = filesOutside(filesDir);
     const passwdBefore = existsSync('/etc/passwd') ? statSync('/etc/passwd').mtimeMs : 0;
-    const png = await sharp({ create: { width: 8, height: 8, channels: 3, background: { r: 1, g: 2, b: 3 } } }).png().toBuffer();
+    const png = await sharp({ create: { width: 8, height: 8, channels: 3, background: { r: 1, g: 2, b: 3 } } })
+      .png()
+      .toBuffer();
     const res = await everyone.post('/api/files').attach('file', png, '../../etc/passwd.png');
     if (res.status === 201) {
       expect(res.body.file.originalName).not.toMatch(/[/\\]/);

@@ -16,8 +16,14 @@ let reviewer: Agent;
 
 beforeAll(async () => {
   t = await startTestApp();
-  ({ agent: admin, user: { id: adminId } } = await t.signIn(['admin']));
-  ({ agent: author, user: { id: authorId } } = await t.signIn(['author']));
+  ({
+    agent: admin,
+    user: { id: adminId },
+  } = await t.signIn(['admin']));
+  ({
+    agent: author,
+    user: { id: authorId },
+  } = await t.signIn(['author']));
   reviewer = (await t.signIn(['author'])).agent;
 });
 afterAll(async () => t?.close());
@@ -31,13 +37,23 @@ const latest = async (action: string) => (await events({ action }))[0];
 
 describe('audit log', () => {
   it('when a guide is approved, retired, restored, exported and imported, then each leaves an event naming the person and the guide', async () => {
-    const g = (await author.post('/api/guides').send({ ...SAMPLE_GUIDE_META, title: `Audited guide ${randomUUID().slice(0, 6)}`, content: SAMPLE_GUIDE }).expect(201)).body.guide;
+    const g = (
+      await author
+        .post('/api/guides')
+        .send({ ...SAMPLE_GUIDE_META, title: `Audited guide ${randomUUID().slice(0, 6)}`, content: SAMPLE_GUIDE })
+        .expect(201)
+    ).body.guide;
     await author.post(`/api/guides/${g.id}/submit`).send({}).expect(200);
     await reviewer.post(`/api/guides/${g.id}/approve`).send({}).expect(200);
     await author.post(`/api/guides/${g.id}/retire`).send({}).expect(200);
     await author.post(`/api/guides/${g.id}/restore`).send({}).expect(200);
     const file = (await author.get(`/api/guides/${g.id}/export?version=published`).expect(200)).body;
-    const imported = (await author.post('/api/guides/import').send({ ...file, guide: { ...file.guide, title: `${file.guide.title} copy` } }).expect(201)).body.guide;
+    const imported = (
+      await author
+        .post('/api/guides/import')
+        .send({ ...file, guide: { ...file.guide, title: `${file.guide.title} copy` } })
+        .expect(201)
+    ).body.guide;
 
     const approve = await latest('guide.approve');
     expect(approve).toMatchObject({ entityKind: 'guide', entityId: String(g.id), after: { version: 1 } });
@@ -50,7 +66,12 @@ describe('audit log', () => {
 
   it('when an article is approved and archived, then both are in the log with the workflow before and after', async () => {
     const body = { type: 'doc', content: [{ type: 'paragraph', content: [{ type: 'text', text: 'Swab the seat.' }] }] };
-    const a = (await author.post('/api/articles').send({ title: `Audited article ${randomUUID().slice(0, 6)}`, body }).expect(201)).body.article;
+    const a = (
+      await author
+        .post('/api/articles')
+        .send({ title: `Audited article ${randomUUID().slice(0, 6)}`, body })
+        .expect(201)
+    ).body.article;
     await author.post(`/api/articles/${a.id}/submit`).send({}).expect(200);
     await reviewer.post(`/api/articles/${a.id}/approve`).send({}).expect(200);
     await author.post(`/api/articles/${a.id}/archive`).send({}).expect(200);
@@ -60,8 +81,16 @@ describe('audit log', () => {
 
   it('when an admin invites, changes roles and deactivates a user, then the log holds each step with roles and state before and after', async () => {
     const email = `audited-${randomUUID().slice(0, 6)}@example.com`;
-    const u = (await admin.post('/api/admin/users').send({ email, name: 'Audited person', roles: ['technician'] }).expect(201)).body.user;
-    await admin.patch(`/api/admin/users/${u.id}`).send({ roles: ['technician', 'support'] }).expect(200);
+    const u = (
+      await admin
+        .post('/api/admin/users')
+        .send({ email, name: 'Audited person', roles: ['technician'] })
+        .expect(201)
+    ).body.user;
+    await admin
+      .patch(`/api/admin/users/${u.id}`)
+      .send({ roles: ['technician', 'support'] })
+      .expect(200);
     await admin.patch(`/api/admin/users/${u.id}`).send({ active: false }).expect(200);
     expect(await latest('user.invite')).toMatchObject({ entityId: String(u.id), userId: adminId, after: { email, roles: ['technician'] } });
     expect(await latest('user.roles')).toMatchObject({ before: { roles: ['technician'] }, after: { roles: ['technician', 'support'] } });
@@ -74,13 +103,19 @@ describe('audit log', () => {
 
     const tags = (await admin.get('/api/admin/tags').expect(200)).body.tags as { slug: string; active: boolean }[];
     const dropped = tags.find((x) => x.active)!;
-    await admin.put('/api/admin/tags').send({ tags: tags.filter((x) => x !== dropped) }).expect(200);
+    await admin
+      .put('/api/admin/tags')
+      .send({ tags: tags.filter((x) => x !== dropped) })
+      .expect(200);
     const tagEvent = await latest('tags.replace');
     expect(JSON.stringify(tagEvent.before)).toContain(dropped.slug);
     expect((tagEvent.after as { active: string[] }).active.some((s) => s.endsWith(`:${dropped.slug}`))).toBe(false);
 
     const causes = (await admin.get('/api/causes').expect(200)).body.causes as { code: string; label: string }[];
-    await admin.put('/api/causes').send({ causes: causes.slice(1).map((c) => ({ code: c.code, label: c.label })) }).expect(200);
+    await admin
+      .put('/api/causes')
+      .send({ causes: causes.slice(1).map((c) => ({ code: c.code, label: c.label })) })
+      .expect(200);
     expect(await latest('causes.replace')).toMatchObject({ userId: adminId, before: { active: expect.arrayContaining([causes[0].code]) }, after: { active: causes.slice(1).map((c) => c.code) } });
 
     await admin.post('/api/applicators/import/sites').set('Content-Type', 'text/csv').send('Site\nAudit Lane\nAudit Yard\n').expect(201);
@@ -110,7 +145,16 @@ describe('audit log', () => {
   it("when another organisation's admin reads the log, then none of these events is there", async () => {
     const [org] = await t.db('organisations').insert({ name: 'Audit elsewhere' }).returning('id');
     await t.db('audit_events').insert({ organisation_id: org.id, user_id: null, action: 'settings.update', entity_kind: 'organisation' });
-    const [other] = await t.db('users').insert({ organisation_id: org.id, email: `aud-${randomUUID().slice(0, 6)}@example.com`, name: 'Other admin', roles: ['admin'], password_hash: (await t.db('users').where({ id: adminId }).first()).password_hash }).returning('*');
+    const [other] = await t
+      .db('users')
+      .insert({
+        organisation_id: org.id,
+        email: `aud-${randomUUID().slice(0, 6)}@example.com`,
+        name: 'Other admin',
+        roles: ['admin'],
+        password_hash: (await t.db('users').where({ id: adminId }).first()).password_hash,
+      })
+      .returning('*');
     const agent = t.agent();
     await agent.post('/api/auth/login').send({ email: other.email, password: 'correct horse battery staple' }).expect(200);
     const res = await agent.get('/api/admin/audit').expect(200);

@@ -56,7 +56,10 @@ describe('sign-in', () => {
   it('when someone keeps guessing one e-mail, then after the limit they get 429 and even the right password waits', async () => {
     const user = await t.createUser(['support']);
     for (let i = 0; i < 5; i++) {
-      const r = await t.agent().post('/api/auth/login').send({ email: user.email, password: `guess number ${i}` });
+      const r = await t
+        .agent()
+        .post('/api/auth/login')
+        .send({ email: user.email, password: `guess number ${i}` });
       expect(r.status).toBe(401);
     }
     const limited = await t.agent().post('/api/auth/login').send({ email: user.email, password: TEST_PASSWORD });

@@ -15,7 +15,10 @@ beforeAll(async () => {
 afterAll(async () => t?.close());
 
 function samplePath(path: string) {
-  return path.replace(/:token/g, 'x'.repeat(32)).replace(/:id/g, '999999').replace(/:[a-zA-Z]+/g, 'sample');
+  return path
+    .replace(/:token/g, 'x'.repeat(32))
+    .replace(/:id/g, '999999')
+    .replace(/:[a-zA-Z]+/g, 'sample');
 }
 
 function countRoutes(stack: Router['stack']): number {

@@ -62,7 +62,9 @@ beforeAll(async () => {
   await agent.post('/api/sites').send({ name: 'Backup works' }).expect(201);
   const body = { type: 'doc', content: [{ type: 'paragraph', content: [{ type: 'text', text: 'Keep the seat clean — ünïcode and "quotes".' }] }] };
   await agent.post('/api/articles').send({ title: 'Backed-up article', body }).expect(201);
-  const png = await sharp({ create: { width: 30, height: 20, channels: 3, background: { r: 40, g: 90, b: 10 } } }).png().toBuffer();
+  const png = await sharp({ create: { width: 30, height: 20, channels: 3, background: { r: 40, g: 90, b: 10 } } })
+    .png()
+    .toBuffer();
   await agent.post('/api/files').attach('file', png, 'seat.png').expect(201);
   await agent.patch('/api/admin/settings').send({ allowSelfPublish: true }).expect(200);
 }, 60_000);

@@ -30,7 +30,22 @@ describe('calculators over HTTP', () => {
     expect(res.status).toBe(200);
     const ids = res.body.calculators.map((c: { id: string }) => c.id).sort();
     expect(ids).toEqual(
-      ['air-consumption', 'air-piston-force', 'bead', 'coil-check', 'coil-temperature', 'dot', 'needle-lift', 'nozzle-flow', 'nozzle-flow-power-law', 'placement-drift', 'service-forecast', 'unit-convert', 'viscosity-temperature', 'weibull'].sort(),
+      [
+        'air-consumption',
+        'air-piston-force',
+        'bead',
+        'coil-check',
+        'coil-temperature',
+        'dot',
+        'needle-lift',
+        'nozzle-flow',
+        'nozzle-flow-power-law',
+        'placement-drift',
+        'service-forecast',
+        'unit-convert',
+        'viscosity-temperature',
+        'weibull',
+      ].sort(),
     );
     for (const c of res.body.calculators) {
       expect(c.inputs.length, c.id).toBeGreaterThan(0);
@@ -59,11 +74,7 @@ describe('calculators over HTTP', () => {
   });
 
   it('when the contract example for nozzle-flow is posted, then 10.92199 uL/s and Re 0.03731 (Hagen-Poiseuille; Bird, Stewart & Lightfoot)', async () => {
-    const r = await run(
-      'nozzle-flow',
-      { innerDiameter: q(0.41, 'mm'), length: q(12.7, 'mm'), viscosity: q(1000, 'cP'), pressureDrop: q(2, 'bar'), density: q(1.1, 'g/cm3') },
-      { flowRate: 'uL/s' },
-    );
+    const r = await run('nozzle-flow', { innerDiameter: q(0.41, 'mm'), length: q(12.7, 'mm'), viscosity: q(1000, 'cP'), pressureDrop: q(2, 'bar'), density: q(1.1, 'g/cm3') }, { flowRate: 'uL/s' });
     expect((r.outputs.flowRate as { unit: string }).unit).toBe('uL/s');
     close(v(r.outputs.flowRate), 10.92199, 1e-6);
     close(v(r.outputs.reynolds), 0.03731, 1e-3);
@@ -78,7 +89,11 @@ describe('calculators over HTTP', () => {
   });
 
   it('when a power-law fluid K=50 Pa.s^n, n=0.5 at 0.5 MPa, then 95.107 uL/s (Bird, Stewart & Lightfoot §8.3, from memory; derived numerically)', async () => {
-    const r = await run('nozzle-flow-power-law', { innerDiameter: q(0.5, 'mm'), length: q(12.7, 'mm'), consistency: q(50, 'Pa.s^n'), flowIndex: q(0.5, '1'), pressureDrop: q(0.5, 'MPa'), density: q(1100, 'kg/m3') }, { flowRate: 'uL/s' });
+    const r = await run(
+      'nozzle-flow-power-law',
+      { innerDiameter: q(0.5, 'mm'), length: q(12.7, 'mm'), consistency: q(50, 'Pa.s^n'), flowIndex: q(0.5, '1'), pressureDrop: q(0.5, 'MPa'), density: q(1100, 'kg/m3') },
+      { flowRate: 'uL/s' },
+    );
     close(v(r.outputs.flowRate), 95.107, 1e-5);
     close(v(r.outputs.wallShearRate), 9687.519, 1e-6);
   });
@@ -171,9 +186,7 @@ describe('calculators over HTTP', () => {
 
 describe('bad calculator input', () => {
   it('when a unit is unknown, an input missing and a length negative, then one 400 names every field', async () => {
-    const res = await agent
-      .post('/api/calculators/nozzle-flow')
-      .send({ inputs: { innerDiameter: q(0.41, 'furlong'), length: q(-1, 'mm'), pressureDrop: q(2, 'bar') } });
+    const res = await agent.post('/api/calculators/nozzle-flow').send({ inputs: { innerDiameter: q(0.41, 'furlong'), length: q(-1, 'mm'), pressureDrop: q(2, 'bar') } });
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('invalid_input');
     const fields = Object.keys(res.body.error.fields);

@@ -76,7 +76,10 @@ async function walkToHotMelt(agent: Agent, outcome: 'fixed' | 'not-fixed'): Prom
 }
 
 async function otherOrganisationSupport(): Promise<Agent> {
-  const [org] = await t.db('organisations').insert({ name: `Other works ${randomBytes(3).toString('hex')}` }).returning('id');
+  const [org] = await t
+    .db('organisations')
+    .insert({ name: `Other works ${randomBytes(3).toString('hex')}` })
+    .returning('id');
   const email = `other-${randomBytes(4).toString('hex')}@example.com`;
   await t.db('users').insert({ organisation_id: org.id, email, name: 'Other support', roles: ['support'], password_hash: await hashPassword(TEST_PASSWORD) });
   const agent = t.agent();
@@ -139,7 +142,13 @@ describe('logging a call', () => {
     const [valve] = await t.db('applicators').insert({ organisation_id: t.organisationId, site_id: site.id, line_id: line.id, tag: 'CL1-V2', actuation: 'electric' }).returning('id');
     const res = await support.post('/api/cases').send({ callerName: 'Una Fell', applicatorId: valve.id, symptom: 'Dots too small' });
     expect(res.status, JSON.stringify(res.body)).toBe(201);
-    expect(res.body.case).toMatchObject({ site: 'Brookfold dairy', line: 'Cup line 1', applicator: 'CL1-V2', applicatorId: valve.id, registered: { id: valve.id, tag: 'CL1-V2', siteName: 'Brookfold dairy' } });
+    expect(res.body.case).toMatchObject({
+      site: 'Brookfold dairy',
+      line: 'Cup line 1',
+      applicator: 'CL1-V2',
+      applicatorId: valve.id,
+      registered: { id: valve.id, tag: 'CL1-V2', siteName: 'Brookfold dairy' },
+    });
     const missing = await support.post('/api/cases').send({ callerName: 'Una Fell', applicatorId: 999999, symptom: 'Dots too small' });
     expect(missing.status).toBe(400);
     expect(missing.body.error.fields.applicatorId).toBeTruthy();
@@ -149,7 +158,18 @@ describe('logging a call', () => {
 describe('working a case', () => {
   it('when support notes, attaches, edits and moves the case through its statuses, then each step is on the timeline in order', async () => {
     const c = await logCall();
-    const [file] = await t.db('files').insert({ id: randomUUID(), organisation_id: t.organisationId, kind: 'photo', mime: 'image/jpeg', original_name: 'nozzle.jpg', size: 1200, variants: JSON.stringify({ thumb: { key: 'x', mime: 'image/webp' } }) }).returning('id');
+    const [file] = await t
+      .db('files')
+      .insert({
+        id: randomUUID(),
+        organisation_id: t.organisationId,
+        kind: 'photo',
+        mime: 'image/jpeg',
+        original_name: 'nozzle.jpg',
+        size: 1200,
+        variants: JSON.stringify({ thumb: { key: 'x', mime: 'image/webp' } }),
+      })
+      .returning('id');
     const note = await support.post(`/api/cases/${c.id}/notes`).send({ text: 'Caller sends a photo of the nozzle', fileIds: [file.id] });
     expect(note.status).toBe(201);
     const noted = note.body.case.events.at(-1);
@@ -247,7 +267,9 @@ describe('walking a guide with the caller and handing off', () => {
     const linked = await support.post(`/api/cases/${c.id}/walks`).send({ walkId });
     expect(linked.status).toBe(201);
     expect(linked.body.case.status).toBe('in-progress');
-    expect(linked.body.case.walks).toEqual([expect.objectContaining({ id: walkId, status: 'ended', endKind: 'finding', outcome: 'not-fixed', stepTitle: 'Hot melt expanding in an overheated nozzle' })]);
+    expect(linked.body.case.walks).toEqual([
+      expect.objectContaining({ id: walkId, status: 'ended', endKind: 'finding', outcome: 'not-fixed', stepTitle: 'Hot melt expanding in an overheated nozzle' }),
+    ]);
     expect((await support.post(`/api/cases/${c.id}/walks`).send({ walkId })).status).toBe(201);
     const other = await logCall();
     const taken = await support.post(`/api/cases/${other.id}/walks`).send({ walkId });
@@ -349,7 +371,10 @@ describe('the case queue', () => {
       const c = await make({ site: 'Alder annex', priority: 'high' });
       const d = await make({ site: 'Cedar yard' });
       await desk.post(`/api/cases/${d.id}/status`).send({ status: 'resolved' }).expect(200);
-      await q.db('cases').where({ id: a.id }).update({ created_at: q.db.raw(`now() - interval '10 days'`) });
+      await q
+        .db('cases')
+        .where({ id: a.id })
+        .update({ created_at: q.db.raw(`now() - interval '10 days'`) });
 
       const get = async (qs: string) => {
         const res = await desk.get(`/api/cases?${qs}`);

@@ -60,16 +60,30 @@ describe('demo history seed', () => {
     const before = ['V-312', 'V-313', 'V-314', 'A-501', 'A-502', 'W-101', 'W-201', 'W-202'];
     const plan = planHistory({ scenario: ctx.scenario, guides: new Map([...ctx.guides].map(([k, g]) => [k, g.content])), random: ctx.random, today: ctx.today, skipTags: new Set(before) });
     const scenarioTags = plan.applicators.map((a) => a.tag);
-    const readings = await db('counter_readings as r').join('applicators as a', 'a.id', 'r.applicator_id').whereIn('a.tag', scenarioTags).orderBy('r.id').select('a.tag', 'r.read_on', 'r.count', 'r.counter_reset');
-    const services = await db('service_events as s').join('applicators as a', 'a.id', 's.applicator_id').whereIn('a.tag', scenarioTags).orderBy('s.id').select('a.tag', 's.performed_on', 's.actions', 's.cycle_count', 's.cause_code');
-    const walks = await db('walks').where({ organisation_id: orgId }).whereNotNull('applicator_id').orderBy('id').select('applicator', 'status', 'end_kind', 'outcome', 'cause_code', 'ended_at_step_id', 'answer_count', 'started_at');
+    const readings = await db('counter_readings as r')
+      .join('applicators as a', 'a.id', 'r.applicator_id')
+      .whereIn('a.tag', scenarioTags)
+      .orderBy('r.id')
+      .select('a.tag', 'r.read_on', 'r.count', 'r.counter_reset');
+    const services = await db('service_events as s')
+      .join('applicators as a', 'a.id', 's.applicator_id')
+      .whereIn('a.tag', scenarioTags)
+      .orderBy('s.id')
+      .select('a.tag', 's.performed_on', 's.actions', 's.cycle_count', 's.cause_code');
+    const walks = await db('walks')
+      .where({ organisation_id: orgId })
+      .whereNotNull('applicator_id')
+      .orderBy('id')
+      .select('applicator', 'status', 'end_kind', 'outcome', 'cause_code', 'ended_at_step_id', 'answer_count', 'started_at');
     const day = (d: Date | string) => (typeof d === 'string' ? d : new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 10));
     const sum = (rows: unknown[]) => createHash('sha256').update(JSON.stringify(rows)).digest('hex');
     expect(readings.length).toBe(plan.readings.length);
     expect(services.length).toBe(plan.services.length);
     expect(walks.length).toBe(plan.walks.length);
     expect(sum(readings.map((r) => [r.tag, day(r.read_on), Number(r.count), r.counter_reset]))).toBe(sum(plan.readings.map((r) => [r.tag, r.readOn, r.count, r.counterReset])));
-    expect(sum(services.map((s) => [s.tag, day(s.performed_on), s.actions, Number(s.cycle_count), s.cause_code]))).toBe(sum(plan.services.map((s) => [s.tag, s.performedOn, s.actions, s.cycleCount, s.causeCode])));
+    expect(sum(services.map((s) => [s.tag, day(s.performed_on), s.actions, Number(s.cycle_count), s.cause_code]))).toBe(
+      sum(plan.services.map((s) => [s.tag, s.performedOn, s.actions, s.cycleCount, s.causeCode])),
+    );
     expect(sum(walks.map((w) => [w.applicator, w.status, w.end_kind, w.outcome, w.cause_code, w.ended_at_step_id, w.answer_count, new Date(w.started_at).toISOString()]))).toBe(
       sum(plan.walks.map((w) => [w.tag, w.status, w.endKind, w.outcome, w.causeCode, w.endedAtStepId, w.answers.length, w.startedAt])),
     );
@@ -82,8 +96,17 @@ describe('demo history seed', () => {
   });
 
   it('when each stored walk is replayed from its stored answers on its pinned version, then it ends as its row says', async () => {
-    const walks = await db('walks as w').join('guide_versions as v', 'v.id', 'w.guide_version_id').where({ 'w.organisation_id': orgId }).select('w.id', 'w.status', 'w.end_kind', 'w.outcome', 'w.ended_at_step_id', 'v.content');
-    const answers = await db('walk_answers').whereIn('walk_id', walks.map((w) => w.id)).orderBy(['walk_id', 'seq']).select('walk_id', 'client_id', 'payload');
+    const walks = await db('walks as w')
+      .join('guide_versions as v', 'v.id', 'w.guide_version_id')
+      .where({ 'w.organisation_id': orgId })
+      .select('w.id', 'w.status', 'w.end_kind', 'w.outcome', 'w.ended_at_step_id', 'v.content');
+    const answers = await db('walk_answers')
+      .whereIn(
+        'walk_id',
+        walks.map((w) => w.id),
+      )
+      .orderBy(['walk_id', 'seq'])
+      .select('walk_id', 'client_id', 'payload');
     const byWalk = new Map<number, WalkAnswer[]>();
     for (const a of answers) byWalk.set(a.walk_id, [...(byWalk.get(a.walk_id) ?? []), { ...(a.payload as WalkAnswer), id: a.client_id }]);
     expect(walks.length).toBeGreaterThanOrEqual(300);

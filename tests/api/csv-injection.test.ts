@@ -22,12 +22,15 @@ const PLAIN_NUMBER = /^-?\d{1,3}(,\d{3})*(\.\d+)?$|^-?\d+(\.\d+)?$/;
 const daysAgo = (n: number) => new Date(Date.now() - n * 86_400_000).toISOString().slice(0, 10);
 
 async function getText(agent: Agent, path: string): Promise<string> {
-  const res = await agent.get(path).buffer(true).parse((r, cb) => {
-    let data = '';
-    r.setEncoding('utf8');
-    r.on('data', (c: string) => (data += c));
-    r.on('end', () => cb(null, data));
-  });
+  const res = await agent
+    .get(path)
+    .buffer(true)
+    .parse((r, cb) => {
+      let data = '';
+      r.setEncoding('utf8');
+      r.on('data', (c: string) => (data += c));
+      r.on('end', () => cb(null, data));
+    });
   expect(res.status, `${path}: ${String(res.body).slice(0, 200)}`).toBe(200);
   expect(res.headers['content-type']).toMatch(/text\/csv/);
   return res.body as string;
@@ -81,11 +84,22 @@ describe('every CSV export', () => {
         })
         .expect(201)
     ).body.applicator;
-    await admin.post(`/api/applicators/${app.id}/readings`).send({ readOn: daysAgo(30), count: 100_000, note: VECTORS.minus }).expect(201);
-    await admin.post(`/api/applicators/${app.id}/readings`).send({ readOn: daysAgo(1), count: 5_000_000, note: VECTORS.at }).expect(201);
-    const ev = await admin
-      .post(`/api/applicators/${app.id}/service-events`)
-      .send({ performedOn: daysAgo(20), actions: ['seat-replaced', 'other'], otherAction: VECTORS.eq, parts: [{ name: VECTORS.plus, partNumber: VECTORS.minus, quantity: 1 }], performedBy: VECTORS.at, notes: VECTORS.eqSimple });
+    await admin
+      .post(`/api/applicators/${app.id}/readings`)
+      .send({ readOn: daysAgo(30), count: 100_000, note: VECTORS.minus })
+      .expect(201);
+    await admin
+      .post(`/api/applicators/${app.id}/readings`)
+      .send({ readOn: daysAgo(1), count: 5_000_000, note: VECTORS.at })
+      .expect(201);
+    const ev = await admin.post(`/api/applicators/${app.id}/service-events`).send({
+      performedOn: daysAgo(20),
+      actions: ['seat-replaced', 'other'],
+      otherAction: VECTORS.eq,
+      parts: [{ name: VECTORS.plus, partNumber: VECTORS.minus, quantity: 1 }],
+      performedBy: VECTORS.at,
+      notes: VECTORS.eqSimple,
+    });
     expect(ev.status, JSON.stringify(ev.body)).toBe(201);
 
     const csvRoutes = t.app.locals.routeTable.filter((r) => r.method === 'get' && r.path.endsWith('.csv')).map((r) => r.path);
@@ -110,7 +124,10 @@ describe('every CSV export', () => {
     // Each export carries at least one payload, as text with its apostrophe.
     for (const path of csvRoutes) {
       if (path.includes('fields')) continue; // the field list holds only the field's name
-      expect([...seen].some((s) => s.startsWith(`${path} `)), `${path} carried a payload as text`).toBe(true);
+      expect(
+        [...seen].some((s) => s.startsWith(`${path} `)),
+        `${path} carried a payload as text`,
+      ).toBe(true);
     }
     expect(seen.size).toBeGreaterThanOrEqual(8);
 

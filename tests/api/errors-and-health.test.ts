@@ -24,7 +24,10 @@ describe('error shape', () => {
   });
 
   it('when the body is over the limit, then 413', async () => {
-    const res = await t.agent().post('/api/auth/login').send({ email: 'a@example.com', password: 'x'.repeat(20_000) });
+    const res = await t
+      .agent()
+      .post('/api/auth/login')
+      .send({ email: 'a@example.com', password: 'x'.repeat(20_000) });
     expect(res.status).toBe(413);
     expect(res.body.error.code).toBe('payload_too_large');
   });

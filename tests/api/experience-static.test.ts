@@ -23,7 +23,14 @@ beforeAll(async () => {
   writeFileSync(join(dir, 'assets', 'index-AbC123.js'), `console.log(${JSON.stringify('x'.repeat(4000))});`);
   writeFileSync(join(dir, 'sw.js'), 'self.addEventListener("fetch", () => {});');
   writeFileSync(join(dir, 'manifest.webmanifest'), '{"name":"Beadpath"}');
-  const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: t.dbUrl, SESSION_SECRET: randomBytes(32).toString('hex'), LOG_LEVEL: 'silent', FILES_DIR: mkdtempSync(join(tmpdir(), 'beadpath-files-')), FAKE_SMTP: '1' });
+  const config = loadConfig({
+    NODE_ENV: 'test',
+    DATABASE_URL: t.dbUrl,
+    SESSION_SECRET: randomBytes(32).toString('hex'),
+    LOG_LEVEL: 'silent',
+    FILES_DIR: mkdtempSync(join(tmpdir(), 'beadpath-files-')),
+    FAKE_SMTP: '1',
+  });
   app = createApp({ db: t.db, config, logger: createLogger('silent'), clientDir: dir, version: 'test' });
 });
 afterAll(async () => {

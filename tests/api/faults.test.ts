@@ -18,7 +18,15 @@ beforeAll(async () => {
   guideId = await t.db.transaction(async (trx) => {
     const [guide] = await trx('guides').insert({ organisation_id: t.organisationId }).returning('id');
     const [version] = await trx('guide_versions')
-      .insert({ guide_id: guide.id, number: 1, state: 'published', title: SAMPLE_GUIDE_META.title, symptom: SAMPLE_GUIDE_META.symptom, content: JSON.stringify(SAMPLE_GUIDE), published_at: trx.fn.now() })
+      .insert({
+        guide_id: guide.id,
+        number: 1,
+        state: 'published',
+        title: SAMPLE_GUIDE_META.title,
+        symptom: SAMPLE_GUIDE_META.symptom,
+        content: JSON.stringify(SAMPLE_GUIDE),
+        published_at: trx.fn.now(),
+      })
       .returning('id');
     await trx('guides').where({ id: guide.id }).update({ published_version_id: version.id });
     return guide.id as number;
@@ -52,7 +60,12 @@ async function whileAnotherWriterAnswers(send: (walkId: number) => Promise<{ sta
 describe('answers racing another writer', () => {
   it('when the walk moves between reading it and storing an answer, then the answer is checked again against the stored log and refused, not stored twice', async () => {
     const mine = entry('drip-when', { kind: 'choice', choiceId: 'after-each-shot' });
-    const { res, rows, other, waitedForTheOther, walk } = await whileAnotherWriterAnswers((id) => tech.post(`/api/walks/${id}/answers`).send(mine).then((r) => r));
+    const { res, rows, other, waitedForTheOther, walk } = await whileAnotherWriterAnswers((id) =>
+      tech
+        .post(`/api/walks/${id}/answers`)
+        .send(mine)
+        .then((r) => r),
+    );
     expect(waitedForTheOther).toBe(true);
     expect(res.status).toBe(409);
     expect(res.body.error.details.reason).toBe('already-answered');
@@ -62,7 +75,12 @@ describe('answers racing another writer', () => {
 
   it('when a queued batch waits for the walk while another writer answers, then the batch sees that answer once the wait ends', async () => {
     const mine = entry('drip-when', { kind: 'choice', choiceId: 'after-stop' });
-    const { res, rows, other, waitedForTheOther } = await whileAnotherWriterAnswers((id) => tech.post(`/api/walks/${id}/answers/batch`).send({ answers: [mine] }).then((r) => r));
+    const { res, rows, other, waitedForTheOther } = await whileAnotherWriterAnswers((id) =>
+      tech
+        .post(`/api/walks/${id}/answers/batch`)
+        .send({ answers: [mine] })
+        .then((r) => r),
+    );
     expect(waitedForTheOther).toBe(true);
     expect(res.status).toBe(409);
     expect(res.body.error.details).toMatchObject({ index: 0, reason: 'already-answered', applied: [] });
@@ -72,7 +90,14 @@ describe('answers racing another writer', () => {
   it('when the other writer had stored the very same entry, then the request is told it is saved, and it is stored once', async () => {
     const walkId = (await tech.post('/api/walks').send({ guideId })).body.walk.id as number;
     const same = entry('drip-when', { kind: 'choice', choiceId: 'between-shots' });
-    const replies = await Promise.all(Array.from({ length: 5 }, () => tech.post(`/api/walks/${walkId}/answers`).send(same).then((r) => r)));
+    const replies = await Promise.all(
+      Array.from({ length: 5 }, () =>
+        tech
+          .post(`/api/walks/${walkId}/answers`)
+          .send(same)
+          .then((r) => r),
+      ),
+    );
     expect(replies.map((r) => r.status).sort()).toEqual([200, 200, 200, 200, 201]);
     expect(await t.db('walk_answers').where({ walk_id: walkId }).count('* as n').first()).toMatchObject({ n: '1' });
   });

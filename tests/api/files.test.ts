@@ -37,9 +37,7 @@ async function phonePhoto(): Promise<Buffer> {
     .toBuffer();
 }
 
-const minimalPdf = Buffer.from(
-  '%PDF-1.4\n1 0 obj<</Type/Catalog/Pages 2 0 R>>endobj 2 0 obj<</Type/Pages/Kids[]/Count 0>>endobj\ntrailer<</Root 1 0 R>>\n%%EOF\n',
-);
+const minimalPdf = Buffer.from('%PDF-1.4\n1 0 obj<</Type/Catalog/Pages 2 0 R>>endobj 2 0 obj<</Type/Pages/Kids[]/Count 0>>endobj\ntrailer<</Root 1 0 R>>\n%%EOF\n');
 
 describe('uploads', () => {
   it('when a phone photo with EXIF orientation and GPS is uploaded, then it is stored upright with no metadata in three sizes', async () => {
@@ -52,11 +50,14 @@ describe('uploads', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.file).toMatchObject({ kind: 'photo', width: 30, height: 60 });
     for (const variant of ['large', 'display', 'thumb']) {
-      const got = await tech.get(res.body.file.urls[variant]).buffer(true).parse((r, cb) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
+      const got = await tech
+        .get(res.body.file.urls[variant])
+        .buffer(true)
+        .parse((r, cb) => {
+          const chunks: Buffer[] = [];
+          r.on('data', (c: Buffer) => chunks.push(c));
+          r.on('end', () => cb(null, Buffer.concat(chunks)));
+        });
       expect(got.status).toBe(200);
       expect(got.headers['content-type']).toBe('image/webp');
       expect(got.headers['cache-control']).toMatch(/max-age=31536000/);
@@ -68,8 +69,12 @@ describe('uploads', () => {
   });
 
   it('when PNG, WebP and PDF files are uploaded, then they are accepted by their bytes', async () => {
-    const png = await sharp({ create: { width: 8, height: 8, channels: 4, background: '#ffffff' } }).png().toBuffer();
-    const webp = await sharp({ create: { width: 8, height: 8, channels: 3, background: '#000000' } }).webp().toBuffer();
+    const png = await sharp({ create: { width: 8, height: 8, channels: 4, background: '#ffffff' } })
+      .png()
+      .toBuffer();
+    const webp = await sharp({ create: { width: 8, height: 8, channels: 3, background: '#000000' } })
+      .webp()
+      .toBuffer();
     expect((await tech.post('/api/files').attach('file', png, 'diagram.png')).body.file.kind).toBe('photo');
     expect((await tech.post('/api/files').attach('file', webp, 'x.webp')).body.file.kind).toBe('photo');
     const pdf = await tech.post('/api/files').attach('file', minimalPdf, 'safety data sheet.pdf');
@@ -106,7 +111,9 @@ describe('uploads', () => {
   });
 
   it('when someone not signed in or from another organisation asks for a file, then it is not served', async () => {
-    const png = await sharp({ create: { width: 4, height: 4, channels: 3, background: '#336699' } }).png().toBuffer();
+    const png = await sharp({ create: { width: 4, height: 4, channels: 3, background: '#336699' } })
+      .png()
+      .toBuffer();
     const up = (await tech.post('/api/files').attach('file', png, 'p.png')).body.file;
     expect((await t.agent().get(up.urls.display)).status).toBe(401);
     const other = await startTestApp();

@@ -129,7 +129,7 @@ describe('exporting and importing', () => {
     expect(JSON.stringify(draft.content.steps[0].body.doc)).not.toContain('image');
   });
 
-  it('when a file uses a cause the organisation does not have, then the cause is added to its list with the file\'s label', async () => {
+  it("when a file uses a cause the organisation does not have, then the cause is added to its list with the file's label", async () => {
     const content = sample();
     const finding = content.steps[indexOf(content, 'finding-seat-worn')] as Json;
     finding.causeCode = 'seat-cracked';
@@ -169,13 +169,7 @@ describe('refusing a bad file', () => {
     const problems = res.body.error.details.problems as { path: string; message: string }[];
     const paths = problems.map((p) => p.path);
     expect(paths).toEqual(
-      expect.arrayContaining([
-        'exportedAt',
-        'guide.colour',
-        `content.steps[${pressure}].bands[1].min`,
-        `content.steps[${ask}].choices[2].next`,
-        `content.steps[${finding}].causeCode`,
-      ]),
+      expect.arrayContaining(['exportedAt', 'guide.colour', `content.steps[${pressure}].bands[1].min`, `content.steps[${ask}].choices[2].next`, `content.steps[${finding}].causeCode`]),
     );
     expect(res.body.error.message).toMatch(new RegExp(`${problems.length} problems`));
     expect(res.body.error.fields[`content.steps[${ask}].choices[2].next`]).toMatch(/'hot-nozzle', which does not exist/);

@@ -129,7 +129,7 @@ describe('writing and publishing a guide', () => {
     expect(body.html).not.toMatch(/onerror|javascript:|<img/);
   });
 
-  it('when a tag is unknown or a photo is not one of the organisation\'s, then 400 names it and nothing is stored', async () => {
+  it("when a tag is unknown or a photo is not one of the organisation's, then 400 names it and nothing is stored", async () => {
     let before = Number((await t.db('guides').count('* as c').first())!.c);
     const tag = await author.post('/api/guides').send({ ...meta(), tags: ['seat', 'flux-capacitor'] });
     expect(tag.status).toBe(400);
@@ -367,7 +367,17 @@ describe('limits and bad input', () => {
   it('when a guide has 5,000 steps, then create and save are refused with a clear 400 and nothing is stored', async () => {
     const huge = {
       startStepId: 's0',
-      steps: Array.from({ length: 5000 }, (_, i) => ({ kind: 'try', id: `s${i}`, title: `Try ${i}`, cautions: [], photoIds: [], articleIds: [], action: 'Do it', fixedNext: null, notFixedNext: `s${i + 1}` })),
+      steps: Array.from({ length: 5000 }, (_, i) => ({
+        kind: 'try',
+        id: `s${i}`,
+        title: `Try ${i}`,
+        cautions: [],
+        photoIds: [],
+        articleIds: [],
+        action: 'Do it',
+        fixedNext: null,
+        notFixedNext: `s${i + 1}`,
+      })),
     };
     const before = Number((await t.db('guides').count('* as c').first())!.c);
     const created = await author.post('/api/guides').send({ ...meta(), content: huge });
@@ -416,12 +426,22 @@ describe('causes', () => {
       const bad = await a.put('/api/causes').send({ causes: [{ code: 'Seat Worn', label: 'Seat worn' }] });
       expect(bad.status).toBe(400);
       expect(bad.body.error.fields['causes.0.code']).toMatch(/lower-case/);
-      const twice = await a.put('/api/causes').send({ causes: [{ code: 'seat-worn', label: 'A' }, { code: 'seat-worn', label: 'B' }] });
+      const twice = await a.put('/api/causes').send({
+        causes: [
+          { code: 'seat-worn', label: 'A' },
+          { code: 'seat-worn', label: 'B' },
+        ],
+      });
       expect(twice.status).toBe(400);
       expect(twice.body.error.fields['causes.1.code']).toMatch(/twice/);
       expect((await tch.put('/api/causes').send({ causes: [{ code: 'x', label: 'x' }] })).status).toBe(403);
 
-      const put = await a.put('/api/causes').send({ causes: [{ code: 'seat-worn', label: 'Seat worn out' }, { code: 'nozzle-whisker', label: 'Whisker on the nozzle', component: 'nozzle' }] });
+      const put = await a.put('/api/causes').send({
+        causes: [
+          { code: 'seat-worn', label: 'Seat worn out' },
+          { code: 'nozzle-whisker', label: 'Whisker on the nozzle', component: 'nozzle' },
+        ],
+      });
       expect(put.status, JSON.stringify(put.body)).toBe(200);
       expect(put.body.causes.find((c: Json) => c.code === 'coil-open')).toMatchObject({ active: false });
       const active = (await tch.get('/api/causes')).body.causes;

@@ -41,13 +41,26 @@ beforeAll(async () => {
   ] as const) {
     const [a] = await t
       .db('applicators')
-      .insert({ organisation_id: t.organisationId, site_id: s.id, line_id: l.id, tag, actuation: 'electric', status: 'running', cycles_per_minute: 100, hours_per_day: 10, days_per_week: 7, installed_on: shift(today, -1000), seat_interval_cycles: interval })
+      .insert({
+        organisation_id: t.organisationId,
+        site_id: s.id,
+        line_id: l.id,
+        tag,
+        actuation: 'electric',
+        status: 'running',
+        cycles_per_minute: 100,
+        hours_per_day: 10,
+        days_per_week: 7,
+        installed_on: shift(today, -1000),
+        seat_interval_cycles: interval,
+      })
       .returning('id');
     ids[tag] = a.id;
     await t.db('service_events').insert({ organisation_id: t.organisationId, applicator_id: a.id, performed_on: shift(today, -900), actions: ['seat-replaced'] });
   }
   // The seat wore twice on one applicator within 30 days, both in the last 30.
-  for (const days of [20, 5]) await t.db('service_events').insert({ organisation_id: t.organisationId, applicator_id: ids['DG-LATER'], performed_on: shift(today, -days), actions: ['cleaned'], cause_code: 'seat-worn' });
+  for (const days of [20, 5])
+    await t.db('service_events').insert({ organisation_id: t.organisationId, applicator_id: ids['DG-LATER'], performed_on: shift(today, -days), actions: ['cleaned'], cause_code: 'seat-worn' });
 });
 
 afterAll(async () => t?.close());

@@ -40,12 +40,18 @@ async function applicator(extra: Record<string, unknown> = {}) {
 }
 
 async function walk(extra: Record<string, unknown>) {
-  const [w] = await t.db('walks').insert({ organisation_id: t.organisationId, guide_id: guideId, guide_version_id: versionId, user_id: userId, ...extra }).returning('id');
+  const [w] = await t
+    .db('walks')
+    .insert({ organisation_id: t.organisationId, guide_id: guideId, guide_version_id: versionId, user_id: userId, ...extra })
+    .returning('id');
   return w.id as number;
 }
 
 async function serviceEvent(applicatorId: number, extra: Record<string, unknown>) {
-  const [e] = await t.db('service_events').insert({ organisation_id: t.organisationId, applicator_id: applicatorId, actions: ['cleaned'], ...extra }).returning('id');
+  const [e] = await t
+    .db('service_events')
+    .insert({ organisation_id: t.organisationId, applicator_id: applicatorId, actions: ['cleaned'], ...extra })
+    .returning('id');
   return e.id as number;
 }
 
@@ -57,7 +63,13 @@ async function reading(applicatorId: number, readOn: string, count: number, coun
 /** Key order and the freshness stamp aside (stored answers come back from jsonb). */
 function canonical(v: unknown): unknown {
   if (Array.isArray(v)) return v.map(canonical);
-  if (v && typeof v === 'object') return Object.fromEntries(Object.keys(v).filter((k) => k !== 'asOf').sort().map((k) => [k, canonical((v as Record<string, unknown>)[k])]));
+  if (v && typeof v === 'object')
+    return Object.fromEntries(
+      Object.keys(v)
+        .filter((k) => k !== 'asOf')
+        .sort()
+        .map((k) => [k, canonical((v as Record<string, unknown>)[k])]),
+    );
   return v;
 }
 
@@ -113,7 +125,16 @@ beforeAll(async () => {
   [guideId, versionId] = await t.db.transaction(async (trx) => {
     const [g] = await trx('guides').insert({ organisation_id: t.organisationId, status: 'active' }).returning('id');
     const [v] = await trx('guide_versions')
-      .insert({ guide_id: g.id, number: 1, state: 'published', title: SAMPLE_GUIDE_META.title, symptom: SAMPLE_GUIDE_META.symptom, tags: SAMPLE_GUIDE_META.tags, content: JSON.stringify(SAMPLE_GUIDE), published_at: trx.fn.now() })
+      .insert({
+        guide_id: g.id,
+        number: 1,
+        state: 'published',
+        title: SAMPLE_GUIDE_META.title,
+        symptom: SAMPLE_GUIDE_META.symptom,
+        tags: SAMPLE_GUIDE_META.tags,
+        content: JSON.stringify(SAMPLE_GUIDE),
+        published_at: trx.fn.now(),
+      })
       .returning('id');
     await trx('guides').where({ id: g.id }).update({ published_version_id: v.id });
     return [g.id as number, v.id as number];
@@ -186,8 +207,14 @@ describe('summary tables', () => {
     const refreshed = (await service.status(t.organisationId)).refreshedAt!;
     await walk({ applicator_id: b.id, status: 'ended', end_kind: 'finding', outcome: 'fixed', cause_code: 'nozzle-blocked', started_at: at(0, -300_000), ended_at: at(0) });
     const open = await t.db('walks').where({ organisation_id: t.organisationId, status: 'open' }).first('id');
-    await t.db('walks').where({ id: open.id }).update({ status: 'abandoned', end_kind: 'abandoned', ended_at: t.db.fn.now(), ended_at_step_id: (SAMPLE_GUIDE.steps[2] as { id: string }).id });
-    await t.db('service_events').where({ applicator_id: b.id, performed_on: shift(today, -350) }).delete();
+    await t
+      .db('walks')
+      .where({ id: open.id })
+      .update({ status: 'abandoned', end_kind: 'abandoned', ended_at: t.db.fn.now(), ended_at_step_id: (SAMPLE_GUIDE.steps[2] as { id: string }).id });
+    await t
+      .db('service_events')
+      .where({ applicator_id: b.id, performed_on: shift(today, -350) })
+      .delete();
     await reading(a.id, today, 60_000_000);
 
     const status = await service.status(t.organisationId);
@@ -243,7 +270,8 @@ describe('refresh through the job queue', () => {
     expect(Date.parse(now.refreshedAt)).toBeGreaterThan(Date.parse(before.body.refreshedAt));
     expect(now).toMatchObject({ changesWaiting: false, requestedAt: null });
     // Two requests while one waits collapse into one queued job.
-    const jobsQueued = async () => Number((await t.db.raw(`select count(*) as n from pgboss.job where name = 'insights-refresh' and state in ('created', 'retry') and singleton_key = ?`, [`org:${t.organisationId}`])).rows[0].n);
+    const jobsQueued = async () =>
+      Number((await t.db.raw(`select count(*) as n from pgboss.job where name = 'insights-refresh' and state in ('created', 'retry') and singleton_key = ?`, [`org:${t.organisationId}`])).rows[0].n);
     await jobs.stop();
     jobs = t.app.locals.insights.jobs;
     expect(await jobsQueued()).toBe(0);
@@ -255,7 +283,8 @@ describe('organisation default intervals', () => {
     // 100 cycles/min × 10 h × 7/7 = 60,000 cycles a day; seat renewed 900 days after installation at 6 M → 54 M since.
     const c = await applicator({ cycles_per_minute: 100, hours_per_day: 10, days_per_week: 7, installed_on: shift(today, -1000) });
     await serviceEvent(c.id, { performed_on: shift(today, -900), actions: ['seat-replaced'] });
-    const seatRow = async () => (await manager.get('/api/insights/forecast').query({ days: 90 })).body.rows.find((r: { applicatorId: number; part: string }) => r.applicatorId === c.id && r.part === 'seat');
+    const seatRow = async () =>
+      (await manager.get('/api/insights/forecast').query({ days: 90 })).body.rows.find((r: { applicatorId: number; part: string }) => r.applicatorId === c.id && r.part === 'seat');
     await service.refresh(t.organisationId);
     // Common practice, 100 M: 46 M to go at 60,000 a day is 766 days away.
     expect(await seatRow()).toBeUndefined();
@@ -330,7 +359,12 @@ describe('Weibull fit through the endpoint', () => {
     const res = await manager.get('/api/insights/reliability').query({ part: 'needle', fluidFamily: 'xcheck' });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body).toMatchObject({ failures: 7, suspensions: 5, cannotFit: null });
-    expect(res.body.intervals.filter((i: { reason: string }) => i.reason === 'planned').map((i: { cycles: number }) => i.cycles).sort()).toEqual(PLANNED);
+    expect(
+      res.body.intervals
+        .filter((i: { reason: string }) => i.reason === 'planned')
+        .map((i: { cycles: number }) => i.cycles)
+        .sort(),
+    ).toEqual(PLANNED);
     const { shape, scale, b10 } = res.body.fit;
     const suspensions = [...PLANNED, ...RUNNING];
     const best = logLikelihood(shape, scale, FAILURES, suspensions);

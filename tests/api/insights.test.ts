@@ -38,7 +38,10 @@ async function walk(extra: Record<string, unknown>) {
 }
 
 async function service(applicatorId: number, extra: Record<string, unknown>) {
-  const [e] = await t.db('service_events').insert({ organisation_id: t.organisationId, applicator_id: applicatorId, actions: ['cleaned'], ...extra }).returning('id');
+  const [e] = await t
+    .db('service_events')
+    .insert({ organisation_id: t.organisationId, applicator_id: applicatorId, actions: ['cleaned'], ...extra })
+    .returning('id');
   return e.id as number;
 }
 
@@ -56,7 +59,16 @@ beforeAll(async () => {
   [guideId, versionId] = await t.db.transaction(async (trx) => {
     const [g] = await trx('guides').insert({ organisation_id: t.organisationId, status: 'active' }).returning('id');
     const [v] = await trx('guide_versions')
-      .insert({ guide_id: g.id, number: 1, state: 'published', title: SAMPLE_GUIDE_META.title, symptom: SAMPLE_GUIDE_META.symptom, tags: SAMPLE_GUIDE_META.tags, content: JSON.stringify(SAMPLE_GUIDE), published_at: trx.fn.now() })
+      .insert({
+        guide_id: g.id,
+        number: 1,
+        state: 'published',
+        title: SAMPLE_GUIDE_META.title,
+        symptom: SAMPLE_GUIDE_META.symptom,
+        tags: SAMPLE_GUIDE_META.tags,
+        content: JSON.stringify(SAMPLE_GUIDE),
+        published_at: trx.fn.now(),
+      })
       .returning('id');
     await trx('guides').where({ id: g.id }).update({ published_version_id: v.id });
     return [g.id as number, v.id as number];

@@ -42,7 +42,8 @@ const today = new Date().toISOString().slice(0, 10);
 
 async function userInB(roles: Role[]) {
   const email = `${roles.join('-')}-${randomUUID().slice(0, 8)}@${MARK.toLowerCase()}.example.com`;
-  const [row] = await t.db('users')
+  const [row] = await t
+    .db('users')
     .insert({ organisation_id: B.org, email, name: `${MARK} ${roles.join(' ')}`, roles, password_hash: await hashPassword(TEST_PASSWORD) })
     .returning('id');
   const agent = t.agent();
@@ -58,7 +59,10 @@ function ok(res: { status: number; body: unknown }, status = 200) {
 beforeAll(async () => {
   t = await startTestApp();
   for (const role of ROLES) agentsA.set(role, (await t.signIn([role])).agent);
-  const [org] = await t.db('organisations').insert({ name: `${MARK} works` }).returning('id');
+  const [org] = await t
+    .db('organisations')
+    .insert({ name: `${MARK} works` })
+    .returning('id');
   B.org = org.id;
   const admin = await userInB(['admin']);
   const author = await userInB(['author']);
@@ -88,8 +92,22 @@ beforeAll(async () => {
   B.field = ok(await B.admin.post('/api/applicators/fields').send({ name: `${MARK} field`, type: 'text' }), 201).field.id;
   B.applicator = ok(
     await B.admin.post('/api/applicators').send({
-      lineId: B.line, tag: `${MARK}-1`, actuation: 'electric', coilDrive: '24v-dc', needleTip: 'ball', needleMaterial: 'Tungsten carbide', seatMaterial: 'Stainless steel',
-      orificeDiameterMm: 0.8, fluidFamily: 'hot-melt', fluidName: MARK, viscosityMPas: 1500, viscosityTemperatureC: 160, densityGPerCm3: 0.98, heated: true, setTemperatureC: 165, installedOn: today,
+      lineId: B.line,
+      tag: `${MARK}-1`,
+      actuation: 'electric',
+      coilDrive: '24v-dc',
+      needleTip: 'ball',
+      needleMaterial: 'Tungsten carbide',
+      seatMaterial: 'Stainless steel',
+      orificeDiameterMm: 0.8,
+      fluidFamily: 'hot-melt',
+      fluidName: MARK,
+      viscosityMPas: 1500,
+      viscosityTemperatureC: 160,
+      densityGPerCm3: 0.98,
+      heated: true,
+      setTemperatureC: 165,
+      installedOn: today,
     }),
     201,
   ).applicator.id;
@@ -102,7 +120,9 @@ beforeAll(async () => {
   ok(await B.support.post(`/api/cases/${B.case}/handoff`).send({ assigneeId: B.authorId, note: `${MARK} please look` }));
   B.notice = (await t.db('notices').where({ organisation_id: B.org }).first()).id;
 
-  const png = await sharp({ create: { width: 40, height: 20, channels: 3, background: { r: 9, g: 90, b: 200 } } }).png().toBuffer();
+  const png = await sharp({ create: { width: 40, height: 20, channels: 3, background: { r: 9, g: 90, b: 200 } } })
+    .png()
+    .toBuffer();
   B.file = ok(await B.tech.post('/api/files').attach('file', png, `${MARK}.png`), 201).file.id;
   ok(await B.admin.post('/api/admin/users').send({ email: `invitee@${MARK.toLowerCase()}.example.com`, name: `${MARK} invitee`, roles: ['technician'] }), 201);
   B.mail = (await t.db('mail_messages').where({ organisation_id: B.org }).first())?.id ?? null;
@@ -145,27 +165,55 @@ function pathWithB(path: string): string {
 /** A body that passes most schemas and points every reference at the other organisation. */
 function bodyWithB(): Record<string, unknown> {
   return {
-    guideId: B.guide, siteId: B.site, lineId: B.line, applicatorId: B.applicator, walkId: B.walk, assigneeId: B.authorId, fileIds: [B.file],
-    name: 'Probe', title: 'Probe', tag: 'PROBE-1', type: 'text', comment: 'Probe', text: 'Probe', note: 'Probe', reason: 'Probe', status: 'closed',
-    readOn: today, count: 5, performedOn: today, actions: ['cleaned'], callerName: 'Probe', site: 'Probe', symptom: 'Probe', baseVersion: 1,
+    guideId: B.guide,
+    siteId: B.site,
+    lineId: B.line,
+    applicatorId: B.applicator,
+    walkId: B.walk,
+    assigneeId: B.authorId,
+    fileIds: [B.file],
+    name: 'Probe',
+    title: 'Probe',
+    tag: 'PROBE-1',
+    type: 'text',
+    comment: 'Probe',
+    text: 'Probe',
+    note: 'Probe',
+    reason: 'Probe',
+    status: 'closed',
+    readOn: today,
+    count: 5,
+    performedOn: today,
+    actions: ['cleaned'],
+    callerName: 'Probe',
+    site: 'Probe',
+    symptom: 'Probe',
+    baseVersion: 1,
     body: { type: 'doc', content: [{ type: 'paragraph', content: [{ type: 'text', text: 'Probe' }] }] },
-    id: `ans-${randomUUID()}`, clientId: `note-${randomUUID()}`, stepId: B.stepId, kind: 'acknowledge', cautionIds: ['lock-out'], answeredAt: new Date().toISOString(),
-    roles: ['technician'], active: false, answers: [{ id: `ans-${randomUUID()}`, stepId: B.stepId, kind: 'acknowledge', cautionIds: ['lock-out'], answeredAt: new Date().toISOString() }],
+    id: `ans-${randomUUID()}`,
+    clientId: `note-${randomUUID()}`,
+    stepId: B.stepId,
+    kind: 'acknowledge',
+    cautionIds: ['lock-out'],
+    answeredAt: new Date().toISOString(),
+    roles: ['technician'],
+    active: false,
+    answers: [{ id: `ans-${randomUUID()}`, stepId: B.stepId, kind: 'acknowledge', cautionIds: ['lock-out'], answeredAt: new Date().toISOString() }],
   };
 }
 
 /** One digest of every row that belongs to the other organisation, directly or through a parent. */
 async function snapshotB(): Promise<Record<string, string>> {
-  const tables: { table_name: string }[] = (
-    // Left out: derived tables that background jobs rebuild for every organisation (search documents,
+  const tables: { table_name: string }[] = // Left out: derived tables that background jobs rebuild for every organisation (search documents,
     // insight summaries), which may change at any moment whatever the probe; the digest runs and
     // opt-outs are people's data and stay in.
-    await t.db.raw(
-      `select table_name from information_schema.columns where table_schema = 'public' and column_name = 'organisation_id'
+    (
+      await t.db.raw(
+        `select table_name from information_schema.columns where table_schema = 'public' and column_name = 'organisation_id'
          and table_name not in ('search_jobs', 'search_words', 'search_documents', 'search_org_state', 'audit_events')
          and (table_name not like 'insight\\_%' or table_name like 'insight\\_digest\\_%')`,
-    )
-  ).rows;
+      )
+    ).rows;
   const scoped = new Set(tables.map((r) => r.table_name));
   const children: { child: string; col: string; parent: string }[] = (
     await t.db.raw(`
@@ -175,7 +223,10 @@ async function snapshotB(): Promise<Record<string, string>> {
   ).rows.filter((r: { child: string; parent: string }) => !scoped.has(r.child) && scoped.has(r.parent) && r.parent !== 'users' && r.child !== 'user_sessions');
   const parts = [
     ...[...scoped].map((tb) => `select '${tb}' as t, md5(coalesce(string_agg(x::text, '|' order by x::text), '')) as h from "${tb}" x where x.organisation_id = ${B.org}`),
-    ...children.map((c) => `select '${c.child}.${c.col}', md5(coalesce(string_agg(x::text, '|' order by x::text), '')) from ${c.child} x where x.${c.col} in (select id from ${c.parent} where organisation_id = ${B.org})`),
+    ...children.map(
+      (c) =>
+        `select '${c.child}.${c.col}', md5(coalesce(string_agg(x::text, '|' order by x::text), '')) from ${c.child} x where x.${c.col} in (select id from ${c.parent} where organisation_id = ${B.org})`,
+    ),
   ];
   const rows: { t: string; h: string }[] = (await t.db.raw(parts.join(' union all '))).rows;
   return Object.fromEntries(rows.map((r) => [r.t, r.h]));

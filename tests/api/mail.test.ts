@@ -123,7 +123,10 @@ describe('password reset', () => {
     await t.agent().post('/api/auth/password-reset').send({ email: user.email }).expect(202);
     const mail = await t.waitForMail((m) => m.to.includes(user.email));
     const token = new URL(linkIn(mail.text, /\/reset-password\?token=[\w-]+/)).searchParams.get('token')!;
-    await t.db('password_resets').where({ user_id: user.id }).update({ expires_at: t.db.raw(`now() - interval '1 second'`) });
+    await t
+      .db('password_resets')
+      .where({ user_id: user.id })
+      .update({ expires_at: t.db.raw(`now() - interval '1 second'`) });
     const info = await t.agent().get(`/api/auth/password-reset/${token}`);
     expect(info.status).toBe(404);
     expect(info.body.error.message).toMatch(/expired/);
@@ -176,7 +179,10 @@ describe('sending with retries', () => {
     await t.mail.start();
     t.mail.fake!.refuse({ code: 550, message: 'Mailbox unavailable' });
     try {
-      await admin.post('/api/admin/users').send({ name: 'Pia Rook', email: 'pia.rook@example.com', roles: ['author'] }).expect(201);
+      await admin
+        .post('/api/admin/users')
+        .send({ name: 'Pia Rook', email: 'pia.rook@example.com', roles: ['author'] })
+        .expect(201);
       const row = await t.db('mail_messages').where({ to_address: 'pia.rook@example.com' }).first();
       const failed = await waitForStatus(row.id, 'failed');
       expect(failed.attempts).toBe(1);
@@ -200,7 +206,10 @@ describe('sending with retries', () => {
 
 describe('the outbox', () => {
   it('when an admin opens a message, then they see its text and HTML; messages of another organisation are not found', async () => {
-    await admin.post('/api/admin/users').send({ name: 'Lena Stroud', email: 'lena.stroud@example.com', roles: ['technician'] }).expect(201);
+    await admin
+      .post('/api/admin/users')
+      .send({ name: 'Lena Stroud', email: 'lena.stroud@example.com', roles: ['technician'] })
+      .expect(201);
     const row = await t.db('mail_messages').where({ to_address: 'lena.stroud@example.com' }).first();
     await waitForStatus(row.id, 'sent');
     const res = await admin.get(`/api/admin/outbox/${row.id}`);

@@ -98,7 +98,16 @@ describe('the fake Meilisearch against the official client', () => {
       ],
     });
     expect(fake.requests).toHaveLength(1);
-    expect(fake.requests[0]).toMatchObject({ method: 'POST', path: '/multi-search', body: { queries: [{ indexUid: 'contract-guides', q: 'weep' }, { indexUid: 'contract-guides', q: 'drips' }] } });
+    expect(fake.requests[0]).toMatchObject({
+      method: 'POST',
+      path: '/multi-search',
+      body: {
+        queries: [
+          { indexUid: 'contract-guides', q: 'weep' },
+          { indexUid: 'contract-guides', q: 'drips' },
+        ],
+      },
+    });
     expect(res.results.map((r) => [r.indexUid, r.hits.map((h) => h.id)])).toEqual([
       ['contract-guides', [2]],
       ['contract-guides', [3]],
@@ -120,22 +129,34 @@ describe('the fake Meilisearch against the official client', () => {
   });
 
   it('when a request fails, then the client throws MeilisearchApiError with the error body as its cause', async () => {
-    const missing = await client.index('nope').search('x').catch((e: unknown) => e);
+    const missing = await client
+      .index('nope')
+      .search('x')
+      .catch((e: unknown) => e);
     expect(missing).toBeInstanceOf(MeilisearchApiError);
     expect((missing as MeilisearchApiError).response.status).toBe(404);
     expect((missing as MeilisearchApiError).cause).toMatchObject({ code: 'index_not_found', type: 'invalid_request', message: expect.any(String), link: expect.any(String) });
 
-    const badFilter = await client.index('contract-guides').search('x', { filter: 'body = "x"' }).catch((e: unknown) => e);
+    const badFilter = await client
+      .index('contract-guides')
+      .search('x', { filter: 'body = "x"' })
+      .catch((e: unknown) => e);
     expect((badFilter as MeilisearchApiError).cause?.code).toBe('invalid_search_filter');
 
-    const wrongKey = await new Meilisearch({ host: fake.url, apiKey: 'wrong' }).index('contract-guides').search('x').catch((e: unknown) => e);
+    const wrongKey = await new Meilisearch({ host: fake.url, apiKey: 'wrong' })
+      .index('contract-guides')
+      .search('x')
+      .catch((e: unknown) => e);
     expect((wrongKey as MeilisearchApiError).response.status).toBe(403);
     expect((wrongKey as MeilisearchApiError).cause?.code).toBe('invalid_api_key');
   });
 
   it('when the server is slow or down, then the client throws a request error (a timeout error when slow)', async () => {
     fake.setSearchDelay(400);
-    const slow = await new Meilisearch({ host: fake.url, apiKey: fake.apiKey, timeout: 100 }).index('contract-guides').search('x').catch((e: unknown) => e);
+    const slow = await new Meilisearch({ host: fake.url, apiKey: fake.apiKey, timeout: 100 })
+      .index('contract-guides')
+      .search('x')
+      .catch((e: unknown) => e);
     fake.setSearchDelay(0);
     expect(slow).toBeInstanceOf(MeilisearchRequestError);
     expect((slow as MeilisearchRequestError).cause).toBeInstanceOf(MeilisearchRequestTimeOutError);

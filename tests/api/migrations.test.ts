@@ -27,7 +27,9 @@ describe('migrations', () => {
     try {
       await db.migrate.latest(opts);
       const tables = async () =>
-        (await db.raw(`select table_name from information_schema.tables where table_schema = 'public' and table_name not like 'knex_%' order by 1`)).rows.map((r: { table_name: string }) => r.table_name);
+        (await db.raw(`select table_name from information_schema.tables where table_schema = 'public' and table_name not like 'knex_%' order by 1`)).rows.map(
+          (r: { table_name: string }) => r.table_name,
+        );
       const first = await tables();
       expect(first).toEqual(expect.arrayContaining(['users', 'articles', 'guides', 'walks', 'walk_answers']));
       await db.migrate.rollback(opts, true);

@@ -44,7 +44,15 @@ beforeAll(async () => {
   guideId = await a.db.transaction(async (trx) => {
     const [guide] = await trx('guides').insert({ organisation_id: a.organisationId }).returning('id');
     const [version] = await trx('guide_versions')
-      .insert({ guide_id: guide.id, number: 1, state: 'published', title: SAMPLE_GUIDE_META.title, symptom: SAMPLE_GUIDE_META.symptom, content: JSON.stringify(SAMPLE_GUIDE), published_at: trx.fn.now() })
+      .insert({
+        guide_id: guide.id,
+        number: 1,
+        state: 'published',
+        title: SAMPLE_GUIDE_META.title,
+        symptom: SAMPLE_GUIDE_META.symptom,
+        content: JSON.stringify(SAMPLE_GUIDE),
+        published_at: trx.fn.now(),
+      })
       .returning('id');
     await trx('guides').where({ id: guide.id }).update({ published_version_id: version.id });
     return guide.id as number;

@@ -23,7 +23,16 @@ const bare = { cautions: [], photoIds: [], articleIds: [] };
 const content = (ask: string, cause: string) => ({
   startStepId: 'start',
   steps: [
-    { kind: 'ask', id: 'start', title: ask, ...bare, choices: [{ id: 'yes', label: 'Yes', next: 'found' }, { id: 'no', label: 'No', next: 'call' }] },
+    {
+      kind: 'ask',
+      id: 'start',
+      title: ask,
+      ...bare,
+      choices: [
+        { id: 'yes', label: 'Yes', next: 'found' },
+        { id: 'no', label: 'No', next: 'call' },
+      ],
+    },
     { kind: 'finding', id: 'found', title: 'Seat fouled', ...bare, causeCode: 'seat-debris', cause, remedy: ['Clean the seat.'], parts: [] },
     { kind: 'handoff', id: 'call', title: 'Call the application engineer', ...bare, contact: 'Application engineer', message: 'Say what you checked.' },
   ],
@@ -201,9 +210,13 @@ describe('falling back to PostgreSQL', () => {
     const lines: string[] = [];
     const logger = { warn: (_o: unknown, m: string) => lines.push(`warn ${m}`), info: (_o: unknown, m: string) => lines.push(`info ${m}`) } as unknown as Logger;
     let replays = 0;
-    const health = new MeiliHealth(logger, () => {
-      replays++;
-    }, 0);
+    const health = new MeiliHealth(
+      logger,
+      () => {
+        replays++;
+      },
+      0,
+    );
     for (let i = 0; i < 5; i++) health.failure(new Error('connect ECONNREFUSED'), 'search');
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatch(/^warn /);

@@ -23,7 +23,16 @@ function guideContent(ask: string, finding: { title: string; code: string; cause
   return {
     startStepId: 'start',
     steps: [
-      { kind: 'ask', id: 'start', title: ask, ...bare, choices: [{ id: 'yes', label: 'Yes', next: 'found' }, { id: 'no', label: 'No', next: 'call' }] },
+      {
+        kind: 'ask',
+        id: 'start',
+        title: ask,
+        ...bare,
+        choices: [
+          { id: 'yes', label: 'Yes', next: 'found' },
+          { id: 'no', label: 'No', next: 'call' },
+        ],
+      },
       { kind: 'finding', id: 'found', title: finding.title, ...bare, causeCode: finding.code, cause: finding.cause, remedy: [finding.remedy], parts: [] },
       { kind: 'handoff', id: 'call', title: 'Call the application engineer', ...bare, contact: 'Application engineer', message: 'Say which checks you made.' },
     ],
@@ -136,21 +145,37 @@ beforeAll(async () => {
     tags: ['seat'],
     keywords: ['loupe'],
   });
-  ids.lipseal = await publishArticle('Choosing O-rings or spring-energised PTFE lip seals', ['Lip seals seal harder as pressure rises.', 'Swelling shows a seal material that does not suit the fluid: check the compatibility chart.'], {
-    tags: ['dynamic-seals', 'cyanoacrylate'],
-  });
-  ids.spike = await publishArticle('Spike and hold drivers for high-voltage coils', ['The driver opens the valve with a short spike near 170 V DC, then drops to a lower hold voltage.', 'Without the drop to hold, the coil runs hot.'], {
-    tags: ['driver', 'coil', 'electric'],
-  });
+  ids.lipseal = await publishArticle(
+    'Choosing O-rings or spring-energised PTFE lip seals',
+    ['Lip seals seal harder as pressure rises.', 'Swelling shows a seal material that does not suit the fluid: check the compatibility chart.'],
+    {
+      tags: ['dynamic-seals', 'cyanoacrylate'],
+    },
+  );
+  ids.spike = await publishArticle(
+    'Spike and hold drivers for high-voltage coils',
+    ['The driver opens the valve with a short spike near 170 V DC, then drops to a lower hold voltage.', 'Without the drop to hold, the coil runs hot.'],
+    {
+      tags: ['driver', 'coil', 'electric'],
+    },
+  );
   ids.purge = await publishArticle('Purging trapped air from a cold glue line', ['Air bubbles in the bead come from air trapped in the line.', 'Purge into a waste cup until the stream runs clear.'], {
     tags: ['cold-glue'],
   });
-  ids.tank = await publishArticle('Setting hot melt tank and hose temperatures', ['Tank, heated hose and valve are usually set between 120 and 200 degrees C.', 'Set the hose a little above the tank.'], {
-    tags: ['hot-melt', 'heater-hose'],
-  });
-  ids.epoxy = await publishArticle('Viscosity of two-part epoxy near the end of its pot life', ['Two-part epoxy thickens as it cures in the mixer.', 'Purge the static mixer before the pot life runs out.'], {
-    tags: ['epoxy'],
-  });
+  ids.tank = await publishArticle(
+    'Setting hot melt tank and hose temperatures',
+    ['Tank, heated hose and valve are usually set between 120 and 200 degrees C.', 'Set the hose a little above the tank.'],
+    {
+      tags: ['hot-melt', 'heater-hose'],
+    },
+  );
+  ids.epoxy = await publishArticle(
+    'Viscosity of two-part epoxy near the end of its pot life',
+    ['Two-part epoxy thickens as it cures in the mixer.', 'Purge the static mixer before the pot life runs out.'],
+    {
+      tags: ['epoxy'],
+    },
+  );
   await syncSearch(t.db);
 });
 afterAll(async () => t?.close());
@@ -237,7 +262,12 @@ describe('synonyms edited by an admin', () => {
   it('when an admin adds a group, then both engines’ PostgreSQL side applies it at once; a technician may not edit it', async () => {
     const before = await admin.get('/api/admin/search/synonyms');
     expect(before.status).toBe(200);
-    expect(before.body.groups).toEqual(expect.arrayContaining([['drip', 'drool', 'dribble'], ['gun', 'valve', 'applicator']]));
+    expect(before.body.groups).toEqual(
+      expect.arrayContaining([
+        ['drip', 'drool', 'dribble'],
+        ['gun', 'valve', 'applicator'],
+      ]),
+    );
     expect(await top('cobweb')).toBeUndefined();
     const put = await admin.put('/api/admin/search/synonyms').send({ groups: [...before.body.groups.map((terms: string[]) => ({ terms })), { terms: ['string', 'Cobweb'] }] });
     expect(put.status, JSON.stringify(put.body)).toBe(200);
@@ -272,11 +302,17 @@ describe('only published content, for everyone', () => {
     const g = await author.post(`/api/guides/${ids.noflow}/draft`);
     expect(g.status, JSON.stringify(g.body)).toBe(201);
     const draft = g.body.guide.draft;
-    await author.put(`/api/guides/${ids.noflow}/draft`).send({ meta: { ...draft.meta, title: 'No flow gribbleflux' }, content: draft.content, baseLockVersion: g.body.guide.lockVersion }).expect(200);
+    await author
+      .put(`/api/guides/${ids.noflow}/draft`)
+      .send({ meta: { ...draft.meta, title: 'No flow gribbleflux' }, content: draft.content, baseLockVersion: g.body.guide.lockVersion })
+      .expect(200);
     // Another organisation's published article, inserted as its own rows.
     const [org] = await t.db('organisations').insert({ name: 'Other works' }).returning('id');
     const [a] = await t.db('articles').insert({ organisation_id: org.id, slug: 'snorkelbane', workflow: 'published' }).returning('id');
-    const [r] = await t.db('article_revisions').insert({ article_id: a.id, number: 1, title: 'Snorkelbane seats', body_json: JSON.stringify(doc('snorkelbane')), body_html: '<p>snorkelbane</p>', body_text: 'snorkelbane' }).returning('id');
+    const [r] = await t
+      .db('article_revisions')
+      .insert({ article_id: a.id, number: 1, title: 'Snorkelbane seats', body_json: JSON.stringify(doc('snorkelbane')), body_html: '<p>snorkelbane</p>', body_text: 'snorkelbane' })
+      .returning('id');
     await t.db('articles').where({ id: a.id }).update({ head_revision_id: r.id, published_revision_id: r.id });
     await syncSearch(t.db);
     expect((await t.db('search_documents').where({ ref_id: a.id, kind: 'article' })).length, 'the other organisation’s article is indexed').toBe(1);

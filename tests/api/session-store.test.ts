@@ -27,7 +27,10 @@ describe('session store', () => {
   it('when roles change or the user is deactivated straight in the database, then the very next request sees it', async () => {
     const { agent, user } = await t.signIn(['technician']);
     await agent.get('/api/admin/users').expect(403);
-    await t.db('users').where({ id: user.id }).update({ roles: ['technician', 'admin'] });
+    await t
+      .db('users')
+      .where({ id: user.id })
+      .update({ roles: ['technician', 'admin'] });
     await agent.get('/api/admin/users').expect(200);
     await t.db('users').where({ id: user.id }).update({ active: false });
     expect((await agent.get('/api/auth/me').expect(200)).body.user).toBeNull();

@@ -40,7 +40,10 @@ const binary = (r: import('supertest').Response, cb: (err: Error | null, body: B
   stream.on('end', () => cb(null, Buffer.concat(chunks)));
 };
 
-const photo = () => sharp({ create: { width: 1600, height: 900, channels: 3, background: { r: 90, g: 140, b: 200 } } }).jpeg().toBuffer();
+const photo = () =>
+  sharp({ create: { width: 1600, height: 900, channels: 3, background: { r: 90, g: 140, b: 200 } } })
+    .jpeg()
+    .toBuffer();
 const fileRows = async () => Number((await t.db('files').count<{ count: string }[]>('* as count'))[0].count);
 
 describe('uploads in S3-compatible storage', () => {
@@ -85,7 +88,10 @@ describe('uploads in S3-compatible storage', () => {
     expect(res.body.error).toMatchObject({ code: 'unavailable', message: expect.stringMatching(/could not be stored.*object storage.*Nothing was saved/) });
     expect(await fileRows()).toBe(before.rows);
     expect(fake.objects.size).toBe(before.objects);
-    const deleted = fake.requests.filter((r) => r.method === 'DELETE').map((r) => r.path.split('/').pop()).sort();
+    const deleted = fake.requests
+      .filter((r) => r.method === 'DELETE')
+      .map((r) => r.path.split('/').pop())
+      .sort();
     // The refused size is deleted too: a store may keep part of what it refused.
     expect(deleted).toEqual(['display.webp', 'large.webp', 'thumb.webp']);
   });
@@ -108,7 +114,11 @@ describe('uploads in S3-compatible storage', () => {
     const started = Date.now();
     const up = await tech.post('/api/files').attach('file', await photo(), 'while-down.jpg');
     expect(up.status).toBe(503);
-    expect(up.body.error).toMatchObject({ code: 'unavailable', message: expect.stringMatching(/could not be stored: the object storage refused the write or is not reachable/), requestId: expect.any(String) });
+    expect(up.body.error).toMatchObject({
+      code: 'unavailable',
+      message: expect.stringMatching(/could not be stored: the object storage refused the write or is not reachable/),
+      requestId: expect.any(String),
+    });
     expect(Date.now() - started).toBeLessThan(8000);
     expect(await fileRows()).toBe(rows);
 
@@ -154,7 +164,10 @@ describe('backup and restore with S3 storage', () => {
     expect(up.status).toBe(201);
     const archive = join(work, 'with-s3.tar.gz');
     const manifest = await backup({ databaseUrl: t.dbUrl, storage: t.app.locals.storage, out: archive });
-    const inBucket = [...fake.objects.keys()].filter((k) => k.startsWith('beadpath/')).map((k) => k.slice('beadpath/'.length)).sort();
+    const inBucket = [...fake.objects.keys()]
+      .filter((k) => k.startsWith('beadpath/'))
+      .map((k) => k.slice('beadpath/'.length))
+      .sort();
     expect(Object.keys(manifest.files).sort()).toEqual(inBucket);
     expect(inBucket).toContain(`${t.organisationId}/${up.body.file.id}/display.webp`);
 

@@ -76,7 +76,9 @@ describe('migration 20261202001000_user_unit_system_default', () => {
     const opts = { directory: migrationsDir, loadExtensions: ['.ts'] };
     try {
       await db.migrate.latest(opts);
-      const [imperialOrg] = await db('organisations').insert({ name: 'Imperial works', settings: JSON.stringify({ defaultUnitSystem: 'imperial' }) }).returning('id');
+      const [imperialOrg] = await db('organisations')
+        .insert({ name: 'Imperial works', settings: JSON.stringify({ defaultUnitSystem: 'imperial' }) })
+        .returning('id');
       const [metricOrg] = await db('organisations').insert({ name: 'Metric works' }).returning('id');
       await db('users').insert([
         { organisation_id: imperialOrg.id, email: 'follows@imperial.invalid', name: 'Follows', roles: ['technician'] },

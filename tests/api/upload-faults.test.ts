@@ -52,7 +52,10 @@ beforeEach(() => {
   faulty.state.puts.length = 0;
 });
 
-const photo = () => sharp({ create: { width: 1200, height: 800, channels: 3, background: { r: 30, g: 160, b: 90 } } }).png().toBuffer();
+const photo = () =>
+  sharp({ create: { width: 1200, height: 800, channels: 3, background: { r: 30, g: 160, b: 90 } } })
+    .png()
+    .toBuffer();
 const pdf = Buffer.from('%PDF-1.4\n1 0 obj<</Type/Catalog/Pages 2 0 R>>endobj 2 0 obj<</Type/Pages/Kids[]/Count 0>>endobj\ntrailer<</Root 1 0 R>>\n%%EOF\n');
 const fileRows = async () => Number((await t.db('files').count<{ count: string }[]>('* as count'))[0].count);
 

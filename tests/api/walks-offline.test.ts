@@ -15,7 +15,15 @@ async function publishGuide() {
   return t.db.transaction(async (trx) => {
     const [guide] = await trx('guides').insert({ organisation_id: t.organisationId }).returning('id');
     const [version] = await trx('guide_versions')
-      .insert({ guide_id: guide.id, number: 1, state: 'published', title: SAMPLE_GUIDE_META.title, symptom: SAMPLE_GUIDE_META.symptom, content: JSON.stringify(SAMPLE_GUIDE), published_at: trx.fn.now() })
+      .insert({
+        guide_id: guide.id,
+        number: 1,
+        state: 'published',
+        title: SAMPLE_GUIDE_META.title,
+        symptom: SAMPLE_GUIDE_META.symptom,
+        content: JSON.stringify(SAMPLE_GUIDE),
+        published_at: trx.fn.now(),
+      })
       .returning('id');
     await trx('guides').where({ id: guide.id }).update({ published_version_id: version.id });
     return guide.id as number;
@@ -121,10 +129,7 @@ describe('the offline queue', () => {
 
   it('when a queued entry is out of order or malformed, then the batch stops at it with the reason', async () => {
     const walkId = await startWalk();
-    const outOfOrder = [
-      queued({ stepId: 'drip-when', kind: 'choice', choiceId: 'between-shots' }),
-      queued({ stepId: 'seat-inspect', kind: 'choice', choiceId: 'both-fine' }),
-    ];
+    const outOfOrder = [queued({ stepId: 'drip-when', kind: 'choice', choiceId: 'between-shots' }), queued({ stepId: 'seat-inspect', kind: 'choice', choiceId: 'both-fine' })];
     const res = await send(walkId, outOfOrder);
     expect(res.status).toBe(409);
     expect(res.body.error.message).toMatch(/not on the walk's current path/);

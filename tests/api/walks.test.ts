@@ -47,9 +47,13 @@ async function publishGuide(opts: { organisationId?: number; status?: 'active' |
 }
 
 async function otherOrganisation(roles: string[]) {
-  const [org] = await t.db('organisations').insert({ name: `Other works ${randomBytes(3).toString('hex')}` }).returning('id');
+  const [org] = await t
+    .db('organisations')
+    .insert({ name: `Other works ${randomBytes(3).toString('hex')}` })
+    .returning('id');
   const email = `other-${randomBytes(4).toString('hex')}@example.com`;
-  const [user] = await t.db('users')
+  const [user] = await t
+    .db('users')
     .insert({ organisation_id: org.id, email, name: 'Other organisation user', roles, password_hash: await hashPassword(TEST_PASSWORD) })
     .returning('id');
   const agent = t.agent();
@@ -146,7 +150,8 @@ describe('starting a walk', () => {
     expect(walk.userName).toBeTruthy();
 
     // A new published version later does not move the walk.
-    const [v2] = await t.db('guide_versions')
+    const [v2] = await t
+      .db('guide_versions')
       .insert({ guide_id: id, number: 2, state: 'published', title: 'Renamed guide', symptom: 'x', content: JSON.stringify(SAMPLE_GUIDE) })
       .returning('id');
     await t.db('guides').where({ id }).update({ published_version_id: v2.id });
@@ -220,7 +225,14 @@ describe('full walks along the demo guide', () => {
     expect(coilStep.route.computed.value).toBeCloseTo(deviation, 6);
 
     const done = await run.answer({ stepId: 'finding-coil-shorted', kind: 'finding-outcome', outcome: 'fixed', note: 'Fitted a new coil BP-COIL-24.' });
-    expect(done.walk).toMatchObject({ status: 'ended', endKind: 'finding', outcome: 'fixed', causeCode: 'coil-shorted', endedAtStepId: 'finding-coil-shorted', outcomeNote: 'Fitted a new coil BP-COIL-24.' });
+    expect(done.walk).toMatchObject({
+      status: 'ended',
+      endKind: 'finding',
+      outcome: 'fixed',
+      causeCode: 'coil-shorted',
+      endedAtStepId: 'finding-coil-shorted',
+      outcomeNote: 'Fitted a new coil BP-COIL-24.',
+    });
     expect(done.walk.endedAt).toBeTruthy();
 
     const stored: WalkDetail = (await tech.get(`/api/walks/${run.walkId}`)).body.walk;
@@ -243,7 +255,16 @@ describe('full walks along the demo guide', () => {
     expect(summary.steps[4].reading.calculator).toMatchObject({ id: 'coil-check', title: 'Coil check', output: 'deviation' });
     expect(summary.steps[4].answer).toMatch(/25 Ω; Coil check with coil temperature at measurement 20 °C: deviation from nominal -13\.19\d* % → More than 10 % below nominal/);
     expect(summary.steps[5].answer).toBe('Fixed: Fitted a new coil BP-COIL-24.');
-    expect(summary).toMatchObject({ outcome: 'fixed', outcomeLabel: 'Fixed', causeCode: 'coil-shorted', causeLabel: 'Coil shorted turns', site: 'Plant 1', line: 'L3', applicator: 'Valve 7', handoffText: null });
+    expect(summary).toMatchObject({
+      outcome: 'fixed',
+      outcomeLabel: 'Fixed',
+      causeCode: 'coil-shorted',
+      causeLabel: 'Coil shorted turns',
+      site: 'Plant 1',
+      line: 'L3',
+      applicator: 'Valve 7',
+      handoffText: null,
+    });
     expect(summary.text).toContain('Cautions acknowledged:');
     expect(summary.text).toContain('Check the coil resistance against its nominal value (Measure)');
   });
@@ -292,7 +313,7 @@ describe('full walks along the demo guide', () => {
     expect(summary.steps.at(-1).answer).toBe('Fixed by something else (cause: Filter blocked): The filter was blocked; changed it.');
   });
 
-  it("when the organisation keeps its own list of causes, then only its active causes are accepted", async () => {
+  it('when the organisation keeps its own list of causes, then only its active causes are accepted', async () => {
     const other = await otherOrganisation(['technician']);
     await t.db('causes').insert([
       { organisation_id: other.organisationId, code: 'glue-skinned', label: 'Glue skinned over in the tank', active: true },
@@ -600,7 +621,10 @@ describe('notes, abandon and flags', () => {
 
     const note = { clientId: `note-${randomUUID()}`, stepId: 'clean-seat', text: 'Will come back after the rush' };
     expect((await tech.post(`/api/walks/${run.walkId}/notes`).send(note)).status).toBe(201);
-    await t.db('walks').where({ id: run.walkId }).update({ ended_at: t.db.raw("now() - interval '25 hours'") });
+    await t
+      .db('walks')
+      .where({ id: run.walkId })
+      .update({ ended_at: t.db.raw("now() - interval '25 hours'") });
     const tooLate = await tech.post(`/api/walks/${run.walkId}/notes`).send({ ...note, clientId: `note-${randomUUID()}` });
     expect(tooLate.status).toBe(409);
     expect(tooLate.body.error.message).toMatch(/a day after it ends/);
@@ -665,7 +689,10 @@ describe('polling the live view', () => {
     const tag2 = moved.headers.etag;
     expect(tag2).not.toBe(tag);
 
-    await tech.post(`/api/walks/${run.walkId}/notes`).send({ clientId: `note-${randomUUID()}`, stepId: 'clean-seat', text: 'Seat has a brown crust' }).expect(201);
+    await tech
+      .post(`/api/walks/${run.walkId}/notes`)
+      .send({ clientId: `note-${randomUUID()}`, stepId: 'clean-seat', text: 'Seat has a brown crust' })
+      .expect(201);
     const noted = await support.get(`/api/walks/${run.walkId}`).set('If-None-Match', tag2);
     expect(noted.status).toBe(200);
     expect(noted.body.walk.notes).toHaveLength(1);

@@ -31,7 +31,12 @@ const vec = (i: number, max = 400) => {
 /** Element names with their attribute names, in document order: what markup a message is made of. */
 function structure(html: string): string[] {
   const doc = new JSDOM(html).window.document;
-  return Array.from(doc.querySelectorAll('*')).map((el) => `${el.tagName.toLowerCase()}[${Array.from(el.attributes, (a) => a.name).sort().join(',')}]`);
+  return Array.from(doc.querySelectorAll('*')).map(
+    (el) =>
+      `${el.tagName.toLowerCase()}[${Array.from(el.attributes, (a) => a.name)
+        .sort()
+        .join(',')}]`,
+  );
 }
 function textOf(html: string): string {
   return new JSDOM(html).window.document.body.textContent ?? '';
@@ -43,7 +48,10 @@ function checkHeadline(html: string, label: string) {
   expect(bare, `${label}: only <mark> is markup`).not.toMatch(/[<>]/);
   expect(dangers(html), label).toEqual([]);
   const dom = new JSDOM(`<body>${html}</body>`).window.document.body;
-  expect(Array.from(dom.querySelectorAll('*')).every((e) => e.tagName === 'MARK'), label).toBe(true);
+  expect(
+    Array.from(dom.querySelectorAll('*')).every((e) => e.tagName === 'MARK'),
+    label,
+  ).toBe(true);
 }
 
 const para = (text: string) => ({ type: 'paragraph', content: [{ type: 'text', text }] });
@@ -60,7 +68,16 @@ async function publish(t: TestApp) {
     content: {
       startStepId: 'start',
       steps: [
-        { kind: 'ask', id: 'start', title: vec(3, 200), ...bare, choices: [{ id: 'yes', label: vec(4, 100), next: 'found' }, { id: 'no', label: 'No', next: 'call' }] },
+        {
+          kind: 'ask',
+          id: 'start',
+          title: vec(3, 200),
+          ...bare,
+          choices: [
+            { id: 'yes', label: vec(4, 100), next: 'found' },
+            { id: 'no', label: 'No', next: 'call' },
+          ],
+        },
         { kind: 'finding', id: 'found', title: vec(5, 200), ...bare, causeCode: 'seat-debris', cause: vec(6, 400), remedy: [vec(7, 200)], parts: [] },
         { kind: 'handoff', id: 'call', title: vec(8, 200), ...bare, contact: 'Application engineer', message: vec(9, 200) },
       ],
@@ -127,7 +144,20 @@ describe('e-mails with script vectors', () => {
     invitation: (s) => invitationMail({ organisationName: s(0), name: s(1), email: 'a@example.com', invitedBy: s(2), roles: ['technician'], link: LINK, days: 7 }),
     'password reset': (s) => passwordResetMail({ organisationName: s(3), name: s(4), email: 'a@example.com', link: LINK, minutes: 60 }),
     'case hand-off': (s) =>
-      handoffMail({ organisationName: s(5), assigneeName: s(6), fromName: s(7), caseId: 12, caseLink: LINK, symptom: s(8), priority: 'high', caller: s(9), callerContact: s(10), place: s(11), note: s(12), walk: { guideTitle: s(13), result: s(14), text: s(15), link: LINK } }),
+      handoffMail({
+        organisationName: s(5),
+        assigneeName: s(6),
+        fromName: s(7),
+        caseId: 12,
+        caseLink: LINK,
+        symptom: s(8),
+        priority: 'high',
+        caller: s(9),
+        callerContact: s(10),
+        place: s(11),
+        note: s(12),
+        walk: { guideTitle: s(13), result: s(14), text: s(15), link: LINK },
+      }),
     'case summary': (s) =>
       caseSummaryMail({
         organisationName: s(16),
@@ -139,7 +169,10 @@ describe('e-mails with script vectors', () => {
         note: s(21),
         walk: {
           guideTitle: s(22),
-          steps: [{ title: s(23), answer: s(24) }, { title: s(25), answer: null }],
+          steps: [
+            { title: s(23), answer: s(24) },
+            { title: s(25), answer: null },
+          ],
           result: { kind: 'finding', title: s(26), cause: s(27), remedy: [s(28)], parts: [{ name: s(29), partNumber: s(30), quantity: 1 }], outcome: 'fixed-by-other', outcomeNote: s(31) },
           cautions: [{ text: s(32), action: s(33) }],
         },
@@ -178,12 +211,23 @@ describe('e-mails with script vectors', () => {
     const t = await startTestApp();
     try {
       const admin = (await t.signIn(['admin'])).agent;
-      await admin.patch('/api/admin/settings').send({ name: XSS_VECTORS[1].slice(0, 120) }).expect(200);
+      await admin
+        .patch('/api/admin/settings')
+        .send({ name: XSS_VECTORS[1].slice(0, 120) })
+        .expect(200);
       await admin.patch('/api/auth/me').send({ name: XSS_VECTORS[30].slice(0, 120) });
       const res = await admin.post('/api/admin/users').send({ name: XSS_VECTORS[13].slice(0, 120), email: 'vector.person@example.com', roles: ['technician'] });
       expect(res.status, JSON.stringify(res.body)).toBe(201);
       const mail = await t.waitForMail((m) => m.to.includes('vector.person@example.com'));
-      const plain = invitationMail({ organisationName: 'word', name: 'word', email: 'vector.person@example.com', invitedBy: 'word', roles: ['technician'], link: 'https://beadpath.example/invite/x', days: 7 });
+      const plain = invitationMail({
+        organisationName: 'word',
+        name: 'word',
+        email: 'vector.person@example.com',
+        invitedBy: 'word',
+        roles: ['technician'],
+        link: 'https://beadpath.example/invite/x',
+        days: 7,
+      });
       expect(structure(mail.html!)).toEqual(structure(plain.html));
       expect(dangers(new JSDOM(mail.html!).window.document.body.innerHTML).filter((d) => !/\[style\]/.test(d))).toEqual([]);
       expect(textOf(mail.html!)).toContain(XSS_VECTORS[13].slice(0, 120));

@@ -34,7 +34,9 @@ describe('articles in the browser', () => {
     await page.keyboard.press('Enter');
     await page.keyboard.type('Press the new seat in square with the seat tool.');
 
-    const photo = await sharp({ create: { width: 320, height: 200, channels: 3, background: { r: 150, g: 120, b: 90 } } }).jpeg().toBuffer();
+    const photo = await sharp({ create: { width: 320, height: 200, channels: 3, background: { r: 150, g: 120, b: 90 } } })
+      .jpeg()
+      .toBuffer();
     await page.getByLabel('Choose a photo').setInputFiles({ name: 'new-seat.jpg', mimeType: 'image/jpeg', buffer: photo });
     await page.getByLabel('What does the photo show?').fill('New stainless seat pressed into the body');
     await page.getByRole('button', { name: 'Add photo' }).click();

@@ -17,7 +17,10 @@ describe('calculator pages', () => {
     await signInWithForm(page, 'tech@example.com');
     await page.getByRole('heading', { name: /Good to see you/ }).waitFor();
     await page.goto('/calculators');
-    await page.getByRole('link', { name: /Needle flow \(Newtonian/ }).first().click();
+    await page
+      .getByRole('link', { name: /Needle flow \(Newtonian/ })
+      .first()
+      .click();
     await page.getByText('Fill in the inputs to see the result').waitFor();
 
     await page.getByLabel('Inner diameter', { exact: true }).fill('0.41');

@@ -65,7 +65,9 @@ describe('progress, skeletons and empty states', () => {
         if (t && seen[seen.length - 1] !== t) seen.push(t);
       }).observe(document.body, { subtree: true, childList: true, characterData: true, attributes: true });
     });
-    const png = await sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 180, g: 120, b: 40 } } }).png().toBuffer();
+    const png = await sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 180, g: 120, b: 40 } } })
+      .png()
+      .toBuffer();
     await dialog.locator('input[type=file]').setInputFiles({ name: 'seat.png', mimeType: 'image/png', buffer: png });
     await dialog.getByRole('img', { name: 'Photo added to the note' }).waitFor();
     const labels = await page.evaluate(() => (window as unknown as { uploadLabels: string[] }).uploadLabels);

@@ -115,11 +115,11 @@ describe('manager insights', () => {
       for (const url of ['/insights', '/insights/forecast', '/insights/guides', '/insights/reliability']) {
         await page.goto(url, { waitUntil: 'networkidle' });
         const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
-        for (const v of result.violations.filter((x) => x.impact === 'serious' || x.impact === 'critical')) found.push(`${viewport.width}px ${url}: ${v.id} (${v.nodes.length}) ${v.nodes[0]?.target.join(' ')}`);
+        for (const v of result.violations.filter((x) => x.impact === 'serious' || x.impact === 'critical'))
+          found.push(`${viewport.width}px ${url}: ${v.id} (${v.nodes.length}) ${v.nodes[0]?.target.join(' ')}`);
       }
       await context.close();
     }
     expect(found).toEqual([]);
   }, 120_000);
 });
-

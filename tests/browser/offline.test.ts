@@ -38,7 +38,11 @@ describe('using Beadpath without signal', () => {
 
     await context.setOffline(true);
     await page.reload();
-    await page.getByRole('navigation', { name: 'Main' }).or(page.getByRole('button', { name: 'Menu' })).first().waitFor();
+    await page
+      .getByRole('navigation', { name: 'Main' })
+      .or(page.getByRole('button', { name: 'Menu' }))
+      .first()
+      .waitFor();
     await page.getByText('No connection — walks keep your answers on this phone').waitFor();
     await page.getByRole('heading', { name: article.title, level: 1 }).waitFor();
 

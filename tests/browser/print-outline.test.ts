@@ -36,7 +36,12 @@ describe('printing a guide outline', () => {
 
     await page.emulateMedia({ media: 'print' });
     const printed = await page.locator('[data-print-step]').evaluateAll((els) =>
-      els.map((el) => ({ id: el.getAttribute('data-print-step'), kind: el.querySelector('[data-kind]')?.textContent, text: (el as HTMLElement).innerText, breakInside: getComputedStyle(el).breakInside })),
+      els.map((el) => ({
+        id: el.getAttribute('data-print-step'),
+        kind: el.querySelector('[data-kind]')?.textContent,
+        text: (el as HTMLElement).innerText,
+        breakInside: getComputedStyle(el).breakInside,
+      })),
     );
     // Every step once, nothing invented.
     expect(printed.map((p) => p.id).sort()).toEqual(content.steps.map((s) => s.id).sort());

@@ -179,7 +179,9 @@ describe('plain text with script vectors', () => {
     const invited = await call(ADMIN, 'post', '/api/admin/users', { name: payload(120, 2), email: 'xss.person@example.com', roles: ['technician'] });
     ids.person = invited.user?.id;
     const tags = (await (await (await as(ADMIN)).api.get('/api/admin/tags')).json()).tags as { group: string; slug: string; label: string; active: boolean }[];
-    await call(ADMIN, 'put', '/api/admin/tags', { tags: [...tags.map(({ group, slug, label, active }) => ({ group, slug, label, active })), { group: tags[0].group, slug: 'xss-tag', label: payload(80, 3), active: true }] });
+    await call(ADMIN, 'put', '/api/admin/tags', {
+      tags: [...tags.map(({ group, slug, label, active }) => ({ group, slug, label, active })), { group: tags[0].group, slug: 'xss-tag', label: payload(80, 3), active: true }],
+    });
 
     // ---- A guide imported from a file whose every title, label and cause carries vectors ----
     const file = JSON.parse(readFileSync(new URL('../../content/guides/bead-skips.json', import.meta.url), 'utf8').replaceAll('"supply-empty"', '"xss-supply-empty"'));

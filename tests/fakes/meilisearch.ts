@@ -94,7 +94,10 @@ function defaultSettings(): Settings {
 // ---- text matching ------------------------------------------------------------------------------
 
 const fold = (s: string) => s.normalize('NFD').replace(/\p{M}/gu, '').toLowerCase();
-const tokens = (s: string) => fold(s).split(/[^\p{L}\p{N}]+/u).filter(Boolean);
+const tokens = (s: string) =>
+  fold(s)
+    .split(/[^\p{L}\p{N}]+/u)
+    .filter(Boolean);
 
 function distance(a: string, b: string, max: number): number {
   if (Math.abs(a.length - b.length) > max) return max + 1;
@@ -130,7 +133,10 @@ function matchWord(word: string, docTokens: string[], prefix: boolean): WordMatc
 function textOf(v: unknown): string {
   if (v === null || v === undefined) return '';
   if (Array.isArray(v)) return v.map(textOf).join(' ');
-  if (typeof v === 'object') return Object.values(v as Doc).map(textOf).join(' ');
+  if (typeof v === 'object')
+    return Object.values(v as Doc)
+      .map(textOf)
+      .join(' ');
   return String(v);
 }
 
@@ -314,8 +320,7 @@ function searchIndex(index: IndexState, body: SearchBody) {
     const [name, n] = c.split(':');
     crop.set(name, n ? Number(n) : (body.cropLength ?? 10));
   }
-  const mark = (text: string, matched: Set<string>) =>
-    text.replace(/[\p{L}\p{N}]+/gu, (w) => (matched.has(fold(w)) || [...matched].some((m) => fold(w).startsWith(m)) ? `${pre}${w}${post}` : w));
+  const mark = (text: string, matched: Set<string>) => text.replace(/[\p{L}\p{N}]+/gu, (w) => (matched.has(fold(w)) || [...matched].some((m) => fold(w).startsWith(m)) ? `${pre}${w}${post}` : w));
   const cropText = (text: string, n: number, matched: Set<string>) => {
     const parts = text.split(/\s+/).filter(Boolean);
     if (parts.length <= n) return text;
@@ -388,7 +393,20 @@ export async function startFakeMeili(opts: { apiKey?: string } = {}): Promise<Fa
       const e = err instanceof ApiError ? err : new ApiError(500, 'internal', String(err), 'internal');
       error = errorBody(e.code, e.message, e.type);
     }
-    tasks.set(uid, { uid, batchUid: uid, indexUid, status: error ? 'failed' : 'succeeded', type, canceledBy: null, details, error, duration: 'PT0.001S', enqueuedAt, startedAt: now(), finishedAt: now() });
+    tasks.set(uid, {
+      uid,
+      batchUid: uid,
+      indexUid,
+      status: error ? 'failed' : 'succeeded',
+      type,
+      canceledBy: null,
+      details,
+      error,
+      duration: 'PT0.001S',
+      enqueuedAt,
+      startedAt: now(),
+      finishedAt: now(),
+    });
     return { status: 202, body: { taskUid: uid, indexUid, status: 'enqueued', type, enqueuedAt } };
   }
 

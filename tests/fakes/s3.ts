@@ -218,5 +218,9 @@ export async function startFakeS3(opts: { bucket?: string; accessKeyId?: string;
 /** Runs the fake on its own for trying Beadpath with S3 by hand: `npx tsx tests/fakes/s3.ts [port]`. */
 if (import.meta.url === `file://${process.argv[1]}`) {
   const fake = await startFakeS3({ port: Number(process.argv[2] ?? 9000) });
-  console.log(`fake S3 listening on ${fake.url}; start Beadpath with:\n${Object.entries(fake.env).map(([k, v]) => `  ${k}=${v}`).join(' \\\n')} \\\n  npm start`);
+  console.log(
+    `fake S3 listening on ${fake.url}; start Beadpath with:\n${Object.entries(fake.env)
+      .map(([k, v]) => `  ${k}=${v}`)
+      .join(' \\\n')} \\\n  npm start`,
+  );
 }

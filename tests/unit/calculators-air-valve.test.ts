@@ -98,9 +98,7 @@ describe('air-consumption (ISO 8778:2003 title [checked]; isothermal free air de
 
   it('when mathjs evaluates the per-minute air, then 0.6523397387946296 L/min', () => {
     // calculators.md §6 npm cross-check: mathjs (verified)
-    const fromMath = math
-      .evaluate('pi*(20 mm)^2/4 * 1 mm * ((6 bar) + (101325 Pa))/(101325 Pa) * 300 / minute to L/minute')
-      .toNumber('L/minute');
+    const fromMath = math.evaluate('pi*(20 mm)^2/4 * 1 mm * ((6 bar) + (101325 Pa))/(101325 Pa) * 300 / minute to L/minute').toNumber('L/minute');
     expectRel(fromMath, 0.6523397387946296, 1e-12);
     expectRel(out(runCalculator('air-consumption', { inputs: base }), 'freeAirPerMinute'), fromMath, 1e-12);
   });

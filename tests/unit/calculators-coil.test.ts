@@ -84,7 +84,7 @@ describe('coil-check (IEC 60028 copper α20 = 0.00393/K, via a secondary summary
     expectRel(resistanceAt(28.8, 353.15), 28.8 * (1 + COPPER_ALPHA_20 * 60), 1e-12);
   });
 
-  it('when IEC 60228\'s simplified correction table is compared, then it fits 250/(230 + t), about 0.004 per K, not this α', () => {
+  it("when IEC 60228's simplified correction table is compared, then it fits 250/(230 + t), about 0.004 per K, not this α", () => {
     // IEC 60228 table values from a secondary copy; the 250/(230 + t) fit is an inference [derived]
     expectPrinted(250 / (230 + 5), '1.064');
     expectPrinted(250 / (230 + 40), '0.926');
@@ -118,7 +118,7 @@ describe('coil-temperature (safety-standard temperature-test clause, k = 234.5 f
     expectRel(out(r, 'hotTemperature', 'K'), 70.36979 + 273.15, PHYSICS);
   });
 
-  it('when IEC 60034-1\'s k = 235 is used instead, then 70.46875 °C; the α form gives 70.36047 °C', () => {
+  it("when IEC 60034-1's k = 235 is used instead, then 70.46875 °C; the α form gives 70.36047 °C", () => {
     // IEC 60034-1 k = 235 [memory]; α form derived
     expectRel(hotTemperatureCelsius(28.8, 20, 34.5, 235), 70.46875, PHYSICS);
     expectRel(20 + (34.5 / 28.8 - 1) / COPPER_ALPHA_20, 70.36047, PHYSICS);

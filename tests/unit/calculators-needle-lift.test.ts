@@ -10,8 +10,7 @@ import { expectRel, expectPrinted, q, out } from '../helpers/calc';
 const PHYSICS = 1e-6;
 const math = create(all, {});
 
-const lift = (included: number, h: number) =>
-  runCalculator('needle-lift', { inputs: { seatDiameter: q(1.5, 'mm'), coneIncludedAngle: q(included, 'deg'), lift: q(h, 'mm') } });
+const lift = (included: number, h: number) => runCalculator('needle-lift', { inputs: { seatDiameter: q(1.5, 'mm'), coneIncludedAngle: q(included, 'deg'), lift: q(h, 'mm') } });
 
 // Frustum area [derived], same construction as Heywood, Internal Combustion Engine Fundamentals §6.3 [memory].
 describe('needle-lift: crossover table for d = 1.5 mm (calculators.md §11 [derived])', () => {

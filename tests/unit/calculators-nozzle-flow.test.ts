@@ -4,12 +4,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { all, create } from 'mathjs';
 import { runCalculator, type CalculatorResponse } from '@/shared/calculators';
-import {
-  hagenPoiseuilleFlow,
-  hagenPoiseuillePressureDrop,
-  seriesPressureDrop,
-  taperedPressureDrop,
-} from '@/shared/calculators/nozzle-flow';
+import { hagenPoiseuilleFlow, hagenPoiseuillePressureDrop, seriesPressureDrop, taperedPressureDrop } from '@/shared/calculators/nozzle-flow';
 import { metznerReedReynolds, powerLawFlow, powerLawPressureDrop, powerLawWallShearRate } from '@/shared/calculators/nozzle-flow-power-law';
 import { CalculatorInputError } from '@/shared/calculators/types';
 import { expectRel, q, out, catchError } from '../helpers/calc';
@@ -130,7 +125,14 @@ describe('nozzle-flow: tapered tip and series sections (calculators.md §3 case 
 
   it('when a needle is split into two sections in series, then the pressure drops add', () => {
     const whole = hagenPoiseuillePressureDrop(0.205e-3, 12.7e-3, 1, 5e-9);
-    const split = seriesPressureDrop([{ radius: 0.205e-3, length: 5e-3 }, { radius: 0.205e-3, length: 7.7e-3 }], 1, 5e-9);
+    const split = seriesPressureDrop(
+      [
+        { radius: 0.205e-3, length: 5e-3 },
+        { radius: 0.205e-3, length: 7.7e-3 },
+      ],
+      1,
+      5e-9,
+    );
     expectRel(split, whole, 1e-12);
   });
 });
@@ -223,9 +225,12 @@ describe('nozzle-flow-power-law: main case (Bird, Stewart & Lightfoot §8.3 [mem
   it('when the velocity profile is integrated numerically, then it gives the same Q', () => {
     // calculators.md §4: numerical integration of the velocity profile [derived]
     const R = 0.25e-3;
-    const profile = (n: number, K: number, r: number) =>
-      (n / (n + 1)) * (0.5e6 / (2 * K * 12.7e-3)) ** (1 / n) * (R ** ((n + 1) / n) - r ** ((n + 1) / n));
-    for (const [n, K] of [[0.5, 50], [0.3, 200], [1, 1]]) {
+    const profile = (n: number, K: number, r: number) => (n / (n + 1)) * (0.5e6 / (2 * K * 12.7e-3)) ** (1 / n) * (R ** ((n + 1) / n) - r ** ((n + 1) / n));
+    for (const [n, K] of [
+      [0.5, 50],
+      [0.3, 200],
+      [1, 1],
+    ]) {
       const steps = 2000;
       const h = R / steps;
       let sum = 0;
@@ -291,15 +296,10 @@ describe('nozzle-flow-power-law: reduction, edge cases and identities', () => {
   it('when the pressure drop is scaled by s, then the flow scales by s^(1/n) (property)', () => {
     // calculators.md §4: Q ∝ ΔP^(1/n) [derived]
     fc.assert(
-      fc.property(
-        fc.double({ min: 0.2, max: 1.5, noNaN: true }),
-        fc.double({ min: 0.5, max: 4, noNaN: true }),
-        fc.double({ min: 1e3, max: 1e6, noNaN: true }),
-        (n, s, dp) => {
-          const ratio = powerLawFlow(0.25e-3, 12.7e-3, 50, n, s * dp) / powerLawFlow(0.25e-3, 12.7e-3, 50, n, dp);
-          return Math.abs(ratio / s ** (1 / n) - 1) <= 1e-9;
-        },
-      ),
+      fc.property(fc.double({ min: 0.2, max: 1.5, noNaN: true }), fc.double({ min: 0.5, max: 4, noNaN: true }), fc.double({ min: 1e3, max: 1e6, noNaN: true }), (n, s, dp) => {
+        const ratio = powerLawFlow(0.25e-3, 12.7e-3, 50, n, s * dp) / powerLawFlow(0.25e-3, 12.7e-3, 50, n, dp);
+        return Math.abs(ratio / s ** (1 / n) - 1) <= 1e-9;
+      }),
     );
   });
 

@@ -92,7 +92,7 @@ describe('service-forecast (rules of thumb [common practice]; arithmetic derived
     expectRel(out(r, 'daysRemaining'), 6200.397, PHYSICS);
   });
 
-  it('when seals of an air valve are forecast, then their default interval is half the seat\'s', () => {
+  it("when seals of an air valve are forecast, then their default interval is half the seat's", () => {
     // domain primer: seal service at roughly half the electric valve's seat interval [common practice]
     expect(DEFAULT_THRESHOLDS.seals).toBe(DEFAULT_THRESHOLDS.seat / 2);
     const r = runCalculator('service-forecast', { inputs: { ...shift, part: 'seals' } });

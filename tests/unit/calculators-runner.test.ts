@@ -1,13 +1,7 @@
 // The calculator registry and request runner: the contract's ids and names, declarations the API can
 // send as JSON, and the field errors a bad request ends in.
 import { describe, expect, it } from 'vitest';
-import {
-  CalculatorRequest,
-  calculators,
-  getCalculator,
-  listCalculators,
-  runCalculator,
-} from '@/shared/calculators';
+import { CalculatorRequest, calculators, getCalculator, listCalculators, runCalculator } from '@/shared/calculators';
 import { CalculatorInputError, UnknownCalculatorError } from '@/shared/calculators/types';
 import { UNITS, isQuantityKind, isUnitOf } from '@/shared/units';
 import { expectRel, q, out } from '../helpers/calc';
@@ -142,7 +136,7 @@ describe('registry against the contract', () => {
 });
 
 describe('request schema and conversions', () => {
-  it('when the contract\'s example body is parsed, then the zod schema accepts it', () => {
+  it("when the contract's example body is parsed, then the zod schema accepts it", () => {
     const body = { inputs: nozzleB, outputUnits: { flowRate: 'uL/s' } };
     expect(CalculatorRequest.parse(body)).toEqual(body);
     expect(CalculatorRequest.safeParse({ inputs: { a: 5 } }).success).toBe(false);
@@ -282,9 +276,7 @@ describe('field errors', () => {
 
   it('when an output unit is unknown, of the wrong kind, for an unknown output or for a verdict, then each is refused', () => {
     const coil = { supplyVoltage: q(24, 'V'), nominalResistance: q(28.8, 'ohm'), measuredResistance: q(28.8, 'ohm'), measuredAt: q(20, 'degC') };
-    expect(
-      fieldsOf(() => runCalculator('coil-check', { inputs: coil, outputUnits: { expectedCurrent: 'mA', expectedPower: 'V', verdict: '1', temperature: 'K' } })),
-    ).toEqual({
+    expect(fieldsOf(() => runCalculator('coil-check', { inputs: coil, outputUnits: { expectedCurrent: 'mA', expectedPower: 'V', verdict: '1', temperature: 'K' } }))).toEqual({
       'outputUnits.expectedCurrent': "Unknown unit 'mA' for expected current at 20 °C: use A",
       'outputUnits.expectedPower': "Unit 'V' cannot be used for expected power at 20 °C, which is a power: use W",
       'outputUnits.verdict': 'Verdict is a verdict and has no unit',
@@ -308,16 +300,7 @@ describe('field errors', () => {
       }),
     );
     expect(Object.keys(fields).sort()).toEqual(
-      [
-        'inputs.colour',
-        'inputs.density',
-        'inputs.flowRate',
-        'inputs.innerDiameter',
-        'inputs.length',
-        'inputs.pressureDrop',
-        'inputs.viscosity',
-        'outputUnits.flowRate',
-      ].sort(),
+      ['inputs.colour', 'inputs.density', 'inputs.flowRate', 'inputs.innerDiameter', 'inputs.length', 'inputs.pressureDrop', 'inputs.viscosity', 'outputUnits.flowRate'].sort(),
     );
   });
 

@@ -37,7 +37,7 @@ function predict(t1: number, t2: number, t: number) {
   });
 }
 
-describe('viscosity-temperature: two-point fits on water (Perry\'s Table 2-135 [checked]; fits derived)', () => {
+describe("viscosity-temperature: two-point fits on water (Perry's Table 2-135 [checked]; fits derived)", () => {
   const cases = [
     { t1: 300, t2: 340, t: 320, b: 1797.265, a: 2.135845, predicted: 587.17, error: '1.76' },
     { t1: 290, t2: 310, t: 300, b: 2007.486, a: 1.068277, predicted: 860.633, error: '0.80' },

@@ -179,10 +179,7 @@ describe('weibull: Johnson adjusted ranks with suspensions mixed in (Check 3 [de
 
   it('when every ordering consistent with the censoring is enumerated, then there are 56 and the mean order numbers equal the adjusted ranks', () => {
     // calculators.md §10 Check 3: brute-force enumeration [derived]
-    const units = [
-      ...failures.map((t) => ({ t, failed: true })),
-      ...suspensions.map((t) => ({ t, failed: false })),
-    ];
+    const units = [...failures.map((t) => ({ t, failed: true })), ...suspensions.map((t) => ({ t, failed: false }))];
     const permutations = (items: number[]): number[][] =>
       items.length <= 1 ? [items] : items.flatMap((x, i) => permutations([...items.slice(0, i), ...items.slice(i + 1)]).map((rest) => [x, ...rest]));
     const consistent = permutations(units.map((_, i) => i)).filter((order) => {
@@ -255,7 +252,10 @@ describe('weibull: edge cases and warnings', () => {
     fc.assert(
       fc.property(fc.double({ min: 1e-3, max: 1e9, noNaN: true }), (k) => {
         const base = weibullMle(NIST_FAILURES, NIST_SUSPENSIONS);
-        const scaled = weibullMle(NIST_FAILURES.map((t) => t * k), NIST_SUSPENSIONS.map((t) => t * k));
+        const scaled = weibullMle(
+          NIST_FAILURES.map((t) => t * k),
+          NIST_SUSPENSIONS.map((t) => t * k),
+        );
         return Math.abs(scaled.shape / base.shape - 1) < 1e-9 && Math.abs(scaled.scale / (base.scale * k) - 1) < 1e-9;
       }),
       { numRuns: 50 },
@@ -266,7 +266,12 @@ describe('weibull: edge cases and warnings', () => {
     // derived: the profile root is the likelihood maximum
     const fit = weibullMle(COMPLETE);
     const best = weibullLogLikelihood(COMPLETE, [], fit.shape, fit.scale);
-    for (const [db, de] of [[0.01, 0], [-0.01, 0], [0, 0.5], [0, -0.5]]) {
+    for (const [db, de] of [
+      [0.01, 0],
+      [-0.01, 0],
+      [0, 0.5],
+      [0, -0.5],
+    ]) {
       expect(weibullLogLikelihood(COMPLETE, [], fit.shape + db, fit.scale + de)).toBeLessThan(best);
     }
   });

@@ -148,7 +148,7 @@ describe('demo history: the stories', () => {
       for (let i = 1; i < own.length; i++) intervals.push(own[i].cycleCount - own[i - 1].cycleCount);
     }
     expect(intervals.length).toBeGreaterThanOrEqual(3);
-    for (const n of intervals) expect(n).toBeGreaterThanOrEqual(18e6), expect(n).toBeLessThanOrEqual(32e6);
+    for (const n of intervals) (expect(n).toBeGreaterThanOrEqual(18e6), expect(n).toBeLessThanOrEqual(32e6));
     const walks = plan.walks.filter((w) => w.story === 'seat-failures-after-fluid-change');
     expect(walks.length).toBe(after);
     for (const w of walks) expect([w.guideKey, w.endedAtStepId, w.causeCode]).toEqual([p.guide, p.findingStep, p.cause]);

@@ -83,7 +83,7 @@ describe('the history hook', () => {
 
   it('when a path is steered, then it takes the named branches to the named end', () => {
     const bead = set.guides.find((g) => g.key === 'bead-skips')!.guide!.content;
-    const steer = (step: { id: string }) => ({ 'skip-pattern': 'random', 'supply-pressure': 'holds', 'flow-check': 'restricted', 'filter-try': true } as Record<string, string | boolean>)[step.id];
+    const steer = (step: { id: string }) => (({ 'skip-pattern': 'random', 'supply-pressure': 'holds', 'flow-check': 'restricted', 'filter-try': true }) as Record<string, string | boolean>)[step.id];
     const path = walkPath(bead, createRandom(1), steer);
     expect(path.map((p) => p.stepId)).toEqual(['skip-pattern', 'supply-pressure', 'flow-check', 'filter-try', 'finding-filter']);
     expect(path[path.length - 1]).toEqual({ stepId: 'finding-filter', kind: 'finding', causeCode: 'filter-blocked' });

@@ -1,17 +1,7 @@
 // Dates and numbers in the reader's locale: the same value in en-US and de-DE must differ in
 // decimal separator, grouping and day/month order, and calendar days must not shift with time zones.
 import { describe, expect, it } from 'vitest';
-import {
-  formatBytes,
-  formatDate,
-  formatDateTime,
-  formatInteger,
-  formatMonth,
-  formatNumber,
-  formatPercent,
-  formatRelative,
-  formatTime,
-} from '@/lib/format';
+import { formatBytes, formatDate, formatDateTime, formatInteger, formatMonth, formatNumber, formatPercent, formatRelative, formatTime } from '@/lib/format';
 
 // Intl separators: some locales use narrow no-break spaces; compare with plain spaces.
 const plain = (s: string) => s.replace(/[\u00a0\u202f]/g, ' ');

@@ -5,15 +5,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { DEFAULT_CAUSES } from '@/shared/tags';
 import { SAMPLE_GUIDE, SAMPLE_GUIDE_META } from '@/shared/guides/sample';
-import {
-  causesUsedBy,
-  exportGuideFile,
-  formatPath,
-  guideFileJsonSchema,
-  parseGuideFile,
-  type FileProblem,
-  type GuideFile,
-} from '@/shared/guides/export';
+import { causesUsedBy, exportGuideFile, formatPath, guideFileJsonSchema, parseGuideFile, type FileProblem, type GuideFile } from '@/shared/guides/export';
 
 const EXPORTED_AT = '2025-03-01T10:00:00.000Z';
 
@@ -91,15 +83,7 @@ describe('reading a malformed guide file', () => {
     json.content.steps[3].bands[0].min = 'low';
     json.content.steps[10].remedy = 'Fix it';
     const problems = problemsOf(json);
-    expect(problems.map((p) => p.path)).toEqual([
-      'format',
-      'exportedAt',
-      'guide.title',
-      'guide.extra',
-      'content.steps[2].colour',
-      'content.steps[3].bands[0].min',
-      'content.steps[10].remedy',
-    ]);
+    expect(problems.map((p) => p.path)).toEqual(['format', 'exportedAt', 'guide.title', 'guide.extra', 'content.steps[2].colour', 'content.steps[3].bands[0].min', 'content.steps[10].remedy']);
     expect(problems[0].message).toContain('not a Beadpath guide file');
     expect(problems[2].message).toBe('Guide title must not be empty');
     expect(problems[3].message).toBe("Unknown field 'extra'");
@@ -116,9 +100,7 @@ describe('reading a malformed guide file', () => {
     json.guide.causes.push({ ...json.guide.causes[0] });
     const problems = problemsOf(json);
     const at = (path: string) => problems.filter((p) => p.path === path).map((p) => p.message);
-    expect(at('content.steps[0].choices[1].next')).toEqual([
-      "In Ask step 'drip-when', choice 'It seeps steadily between shots' points at step 'nowhere', which does not exist",
-    ]);
+    expect(at('content.steps[0].choices[1].next')).toEqual(["In Ask step 'drip-when', choice 'It seeps steadily between shots' points at step 'nowhere', which does not exist"]);
     expect(at('content.steps[1].bands[1].min')[0]).toContain("Gap between bands 'normal' and 'high'");
     expect(at('content.steps[10].causeCode')[0]).toContain("'gremlins'");
     expect(at('content.steps[19].message')[0]).toContain('what to tell them is empty');
@@ -137,9 +119,7 @@ describe('reading a malformed guide file', () => {
   it('when a measure names a calculator Beadpath does not have, then import refuses it', () => {
     const json = fromDisk(sampleFile());
     json.content.steps[4].calculator.id = 'crystal-ball';
-    expect(problemsOf(json)).toEqual([
-      { path: 'content.steps[4].calculator.id', message: "Measure step 'coil-resistance': there is no calculator 'crystal-ball'" },
-    ]);
+    expect(problemsOf(json)).toEqual([{ path: 'content.steps[4].calculator.id', message: "Measure step 'coil-resistance': there is no calculator 'crystal-ball'" }]);
   });
 
   it('when paths hold odd keys, then they are quoted', () => {

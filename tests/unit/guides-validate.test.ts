@@ -48,11 +48,7 @@ function validGuide(): GuideContent {
         cautions: [lockOut],
         reading: { label: 'Coil resistance', kind: 'resistance', unit: 'ohm' },
         bandUnit: 'ohm',
-        bands: [
-          band('low', null, 25.9, false, false, 'coil-shorted'),
-          band('ok', 25.9, 31.7, true, true, 'clean'),
-          band('high', 31.7, null, false, false, 'call'),
-        ],
+        bands: [band('low', null, 25.9, false, false, 'coil-shorted'), band('ok', 25.9, 31.7, true, true, 'clean'), band('high', 31.7, null, false, false, 'call')],
       },
       {
         kind: 'try',
@@ -409,22 +405,11 @@ describe('bands', () => {
   // Any sorted set of distinct cut points, each included on exactly one side, partitions the line.
   const partition = fc
     .uniqueArray(fc.double({ min: -1e6, max: 1e6, noNaN: true, noDefaultInfinity: true }), { minLength: 0, maxLength: 10 })
-    .chain((cuts) =>
-      fc.tuple(fc.constant([...cuts].sort((a, b) => a - b)), fc.array(fc.boolean(), { minLength: cuts.length, maxLength: cuts.length })),
-    )
+    .chain((cuts) => fc.tuple(fc.constant([...cuts].sort((a, b) => a - b)), fc.array(fc.boolean(), { minLength: cuts.length, maxLength: cuts.length })))
     .map(([cuts, lowerSideIncludes]) => {
       const bands: Band[] = [];
       for (let i = 0; i <= cuts.length; i++) {
-        bands.push(
-          band(
-            `b${i}`,
-            i === 0 ? null : cuts[i - 1],
-            i === cuts.length ? null : cuts[i],
-            i === 0 ? false : !lowerSideIncludes[i - 1],
-            i === cuts.length ? false : lowerSideIncludes[i],
-            'x',
-          ),
-        );
+        bands.push(band(`b${i}`, i === 0 ? null : cuts[i - 1], i === cuts.length ? null : cuts[i], i === 0 ? false : !lowerSideIncludes[i - 1], i === cuts.length ? false : lowerSideIncludes[i], 'x'));
       }
       return bands;
     });
@@ -539,14 +524,30 @@ function wideTree(): GuideContent {
     choices: children.map((child, index) => ({ id: `c${index}`, label: `Answer ${index}`, next: child })),
   });
   const range = (n: number) => Array.from({ length: n }, (_, i) => i);
-  steps.push(ask('root', range(12).map((i) => `a${i}`)));
-  for (const i of range(12)) steps.push(ask(`a${i}`, range(12).map((j) => `a${i}-${j}`)));
+  steps.push(
+    ask(
+      'root',
+      range(12).map((i) => `a${i}`),
+    ),
+  );
+  for (const i of range(12))
+    steps.push(
+      ask(
+        `a${i}`,
+        range(12).map((j) => `a${i}-${j}`),
+      ),
+    );
   for (const i of range(12)) {
     for (const j of range(12)) {
       const id = `a${i}-${j}`;
       if (i === 0) {
         const width = j === 11 ? 11 : 12;
-        steps.push(ask(id, range(width).map((k) => `${id}-${k}`)));
+        steps.push(
+          ask(
+            id,
+            range(width).map((k) => `${id}-${k}`),
+          ),
+        );
         for (const k of range(width)) steps.push(finding(`${id}-${k}`));
       } else {
         steps.push(finding(id));

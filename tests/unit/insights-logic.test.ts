@@ -13,13 +13,22 @@ describe('pareto', () => {
       { code: 'coil-hot', count: 3 },
       { code: 'seat-worn', count: 1 },
     ]);
-    expect(bars.map((b) => [b.code, b.count])).toEqual([['seat-worn', 5], ['coil-hot', 3], ['nozzle-blocked', 2]]);
+    expect(bars.map((b) => [b.code, b.count])).toEqual([
+      ['seat-worn', 5],
+      ['coil-hot', 3],
+      ['nozzle-blocked', 2],
+    ]);
     expect(bars.map((b) => b.percent)).toEqual([50, 30, 20]);
     expect(bars.map((b) => b.cumulativePercent)).toEqual([50, 80, 100]);
   });
 
   it('when two causes tie, then they are ordered by code, the same every time', () => {
-    expect(pareto([{ code: 'b', count: 1 }, { code: 'a', count: 1 }]).map((b) => b.code)).toEqual(['a', 'b']);
+    expect(
+      pareto([
+        { code: 'b', count: 1 },
+        { code: 'a', count: 1 },
+      ]).map((b) => b.code),
+    ).toEqual(['a', 'b']);
   });
 
   it('when there are no causes (or only zero counts), then there are no bars rather than NaN shares', () => {
@@ -56,7 +65,10 @@ describe('repeat failures', () => {
       { applicatorId: 9, code: 'x', on: '2026-02-01' },
       { applicatorId: 9, code: 'x', on: '2026-02-10' },
     ];
-    expect(repeatFailures(chain, 15).map((r) => [r.firstOn, r.repeatOn])).toEqual([['2026-02-10', '2026-02-20'], ['2026-02-01', '2026-02-10']]);
+    expect(repeatFailures(chain, 15).map((r) => [r.firstOn, r.repeatOn])).toEqual([
+      ['2026-02-10', '2026-02-20'],
+      ['2026-02-01', '2026-02-10'],
+    ]);
   });
 });
 

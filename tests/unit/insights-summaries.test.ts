@@ -22,7 +22,12 @@ describe('median of counted values', () => {
     const list = counted.flatMap((c) => Array(c.n).fill(c.minutes));
     expect(medianOfCounted(counted)).toBe(median(list));
     expect(medianOfCounted(counted)).toBe(20);
-    expect(medianOfCounted([{ minutes: 10, n: 1 }, { minutes: 15, n: 1 }])).toBe(12.5);
+    expect(
+      medianOfCounted([
+        { minutes: 10, n: 1 },
+        { minutes: 15, n: 1 },
+      ]),
+    ).toBe(12.5);
     expect(medianOfCounted([{ minutes: 7, n: 5 }])).toBe(7);
   });
 

@@ -3,21 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { all, create } from 'mathjs';
-import {
-  KIND_LABELS,
-  QUANTITY_KINDS,
-  UNITS,
-  assertAboveAbsoluteZero,
-  convert,
-  fromSI,
-  kindOfUnit,
-  kindsOfUnit,
-  toSI,
-  unitLabel,
-  unitsFor,
-  UnitError,
-  type QuantityKind,
-} from '@/shared/units';
+import { KIND_LABELS, QUANTITY_KINDS, UNITS, assertAboveAbsoluteZero, convert, fromSI, kindOfUnit, kindsOfUnit, toSI, unitLabel, unitsFor, UnitError, type QuantityKind } from '@/shared/units';
 import { CalculatorInputError } from '@/shared/calculators/types';
 import { expectRel, catchError } from '../helpers/calc';
 
@@ -63,7 +49,10 @@ describe('unit table', () => {
     };
     expect(Object.keys(UNITS).sort()).toEqual(Object.keys(expected).sort());
     for (const kind of QUANTITY_KINDS) {
-      expect(UNITS[kind].map((spec) => spec.unit), kind).toEqual(expected[kind]);
+      expect(
+        UNITS[kind].map((spec) => spec.unit),
+        kind,
+      ).toEqual(expected[kind]);
       expect(KIND_LABELS[kind]).toBeTruthy();
     }
   });

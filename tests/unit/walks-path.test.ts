@@ -116,10 +116,23 @@ describe('full paths through the sample guide', () => {
 
   it('when random answers are given at every step, then the walk always reaches an end without visiting a step twice', () => {
     const readings: Record<string, [number, string][]> = {
-      'fluid-pressure': [[3, 'bar'], [90, 'psi']],
-      'off-voltage': [[-0.2, 'V'], [24, 'V']],
-      'coil-resistance': [[22, 'ohm'], [28.8, 'ohm'], [40, 'ohm']],
-      'nozzle-temp': [[170, 'degC'], [400, 'degF']],
+      'fluid-pressure': [
+        [3, 'bar'],
+        [90, 'psi'],
+      ],
+      'off-voltage': [
+        [-0.2, 'V'],
+        [24, 'V'],
+      ],
+      'coil-resistance': [
+        [22, 'ohm'],
+        [28.8, 'ohm'],
+        [40, 'ohm'],
+      ],
+      'nozzle-temp': [
+        [170, 'degC'],
+        [400, 'degF'],
+      ],
     };
     fc.assert(
       fc.property(fc.array(fc.nat(), { minLength: 20, maxLength: 20 }), (picks) => {
@@ -193,12 +206,15 @@ describe('readings', () => {
 
   it('when a calculator input is missing, fixed by the guide, or the reading itself, then the answer is refused at that field', () => {
     expect(nextStepFor(coil, reading(25, 'ohm'))).toMatchObject({ ok: false, code: 'calculator-input', field: 'calculatorInputs.measuredAt' });
-    expect(
-      nextStepFor(coil, reading(25, 'ohm', { calculatorInputs: { measuredAt: { value: 20, unit: 'degC' }, nominalResistance: { value: 25, unit: 'ohm' } } })),
-    ).toMatchObject({ ok: false, code: 'calculator-input-fixed', field: 'calculatorInputs.nominalResistance' });
-    expect(
-      nextStepFor(coil, reading(25, 'ohm', { calculatorInputs: { measuredAt: { value: 20, unit: 'degC' }, measuredResistance: { value: 25, unit: 'ohm' } } })),
-    ).toMatchObject({ ok: false, code: 'calculator-input-reading' });
+    expect(nextStepFor(coil, reading(25, 'ohm', { calculatorInputs: { measuredAt: { value: 20, unit: 'degC' }, nominalResistance: { value: 25, unit: 'ohm' } } }))).toMatchObject({
+      ok: false,
+      code: 'calculator-input-fixed',
+      field: 'calculatorInputs.nominalResistance',
+    });
+    expect(nextStepFor(coil, reading(25, 'ohm', { calculatorInputs: { measuredAt: { value: 20, unit: 'degC' }, measuredResistance: { value: 25, unit: 'ohm' } } }))).toMatchObject({
+      ok: false,
+      code: 'calculator-input-reading',
+    });
   });
 
   it('when a reading is in a unit of another kind or an unknown unit, then it is refused with the units that fit', () => {

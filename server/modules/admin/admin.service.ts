@@ -118,10 +118,7 @@ export function createAdminService(db: Knex, mailer?: { mail: MailService; confi
         if (patch.name !== undefined) row.name = patch.name;
         if (patch.roles !== undefined) row.roles = patch.roles;
         if (patch.active !== undefined) row.active = patch.active;
-        const losesAdmin =
-          user.active &&
-          user.roles.includes('admin') &&
-          (patch.active === false || (patch.roles !== undefined && !patch.roles.includes('admin')));
+        const losesAdmin = user.active && user.roles.includes('admin') && (patch.active === false || (patch.roles !== undefined && !patch.roles.includes('admin')));
         if (losesAdmin && (await usersRepository.countActiveAdmins(trx, organisationId)) <= 1) {
           throw AppError.conflict('This is the last active admin: make someone else an admin first', {
             [patch.active === false ? 'active' : 'roles']: 'The organisation needs at least one active admin',

@@ -72,11 +72,7 @@ export const articlesRepository = {
     return db('article_revisions as r').leftJoin('users as u', 'u.id', 'r.author_id').select('r.*', 'u.name as author_name').where('r.id', id).first();
   },
   async revisionByNumber(db: Knex, articleId: number, number: number): Promise<RevisionRow | undefined> {
-    return db('article_revisions as r')
-      .leftJoin('users as u', 'u.id', 'r.author_id')
-      .select('r.*', 'u.name as author_name')
-      .where({ 'r.article_id': articleId, 'r.number': number })
-      .first();
+    return db('article_revisions as r').leftJoin('users as u', 'u.id', 'r.author_id').select('r.*', 'u.name as author_name').where({ 'r.article_id': articleId, 'r.number': number }).first();
   },
   async revisions(db: Knex, articleId: number) {
     return db('article_revisions as r')
@@ -110,11 +106,7 @@ export const articlesRepository = {
     return rows.map((r) => ({ kind: r.kind, userName: r.user_name, revisionNumber: r.revision_number, comment: r.comment, createdAt: r.created_at.toISOString() }));
   },
   /** Listing rows: the head revision for authors, the published one for readers. */
-  async list(
-    db: Knex,
-    organisationId: number,
-    opts: { readerView: boolean; status?: string; tag?: string; q?: string; mineUserId?: number; excludeSubmitter?: number },
-  ): Promise<ArticleSummary[]> {
+  async list(db: Knex, organisationId: number, opts: { readerView: boolean; status?: string; tag?: string; q?: string; mineUserId?: number; excludeSubmitter?: number }): Promise<ArticleSummary[]> {
     const q = db('articles as a')
       .join('article_revisions as r', 'r.id', opts.readerView ? 'a.published_revision_id' : 'a.head_revision_id')
       .leftJoin('users as u', 'u.id', 'a.created_by')

@@ -4,13 +4,7 @@ import { diffLines, diffWordsWithSpace } from 'diff';
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../src/shared/schemas/auth';
 import { can } from '../../../src/shared/permissions';
-import {
-  slugify,
-  type ArticleCreateInput,
-  type ArticleDetail,
-  type ArticleSaveInput,
-  type ArticleWorkflow,
-} from '../../../src/shared/schemas/articles';
+import { slugify, type ArticleCreateInput, type ArticleDetail, type ArticleSaveInput, type ArticleWorkflow } from '../../../src/shared/schemas/articles';
 import { AppError } from '../../lib/app-error';
 import { prepareRichText } from '../../lib/rich-text';
 import type { FilesService } from '../files/files.service';
@@ -66,7 +60,12 @@ export function createArticlesService(deps: { db: Knex; tags: TagsService; files
     if (!author && (!published || a.workflow === 'archived')) throw AppError.notFound('This article');
     const head = author ? await repo.revisionById(trx, a.head_revision_id) : undefined;
     const shown = (head ?? published)!;
-    const names = await trx('users').whereIn('id', [a.created_by, a.submitted_by, a.reviewed_by].filter((x): x is number => x !== null)).select('id', 'name');
+    const names = await trx('users')
+      .whereIn(
+        'id',
+        [a.created_by, a.submitted_by, a.reviewed_by].filter((x): x is number => x !== null),
+      )
+      .select('id', 'name');
     const nameOf = (id: number | null) => names.find((n) => n.id === id)?.name ?? null;
     const fileIds = [...new Set([...(head?.file_ids ?? []), ...(published?.file_ids ?? [])])];
     return {
@@ -101,12 +100,9 @@ export function createArticlesService(deps: { db: Knex; tags: TagsService; files
   }
 
   function conflict(a: ArticleRow, head: RevisionRow) {
-    return new AppError(
-      'conflict',
-      `Someone else changed this article (revision ${head.number}, saved by ${head.author_name ?? 'another author'}) since you opened it.`,
-      undefined,
-      { current: { version: a.version, revision: toRevision(head) } },
-    );
+    return new AppError('conflict', `Someone else changed this article (revision ${head.number}, saved by ${head.author_name ?? 'another author'}) since you opened it.`, undefined, {
+      current: { version: a.version, revision: toRevision(head) },
+    });
   }
 
   async function transition(user: SessionUser, id: number, from: ArticleWorkflow[], to: ArticleWorkflow, event: string, comment?: string, extra: Record<string, unknown> = {}) {
@@ -119,7 +115,15 @@ export function createArticlesService(deps: { db: Knex; tags: TagsService; files
       await touch(trx, a, { workflow: to, ...extra });
       await repo.event(trx, a.id, event, user.id, head?.number ?? null, comment);
       if (event === 'archived' || event === 'restored') {
-        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: `article.${event === 'archived' ? 'archive' : 'unarchive'}`, entityKind: 'article', entityId: a.id, before: { title: head?.title, workflow: a.workflow }, after: { title: head?.title, workflow: to } });
+        await audit(trx, {
+          organisationId: user.organisationId,
+          userId: user.id,
+          action: `article.${event === 'archived' ? 'archive' : 'unarchive'}`,
+          entityKind: 'article',
+          entityId: a.id,
+          before: { title: head?.title, workflow: a.workflow },
+          after: { title: head?.title, workflow: to },
+        });
       }
       return detail(trx, user, (await repo.find(trx, user.organisationId, id))!);
     });
@@ -170,11 +174,7 @@ export function createArticlesService(deps: { db: Knex; tags: TagsService; files
           throw AppError.conflict('An article with this title already exists', { title: 'An article with this title already exists; choose another title' });
         }
         const fields = await prepare(trx, user, input);
-        const fold =
-          input.autosave &&
-          head.author_id === user.id &&
-          head.id !== a.published_revision_id &&
-          Date.now() - head.updated_at.getTime() < AUTOSAVE_FOLD_MS;
+        const fold = input.autosave && head.author_id === user.id && head.id !== a.published_revision_id && Date.now() - head.updated_at.getTime() < AUTOSAVE_FOLD_MS;
         let number = head.number;
         if (fold) {
           await repo.updateRevision(trx, head.id, { ...fields, note: input.note ?? head.note });
@@ -209,7 +209,15 @@ export function createArticlesService(deps: { db: Knex; tags: TagsService; files
         const head = (await repo.revisionById(trx, a.head_revision_id))!;
         await touch(trx, a, { workflow: 'published', published_revision_id: a.head_revision_id, reviewed_by: user.id, reviewed_at: trx.fn.now() });
         await repo.event(trx, a.id, 'approved', user.id, head.number, comment);
-        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'article.approve', entityKind: 'article', entityId: a.id, before: { title: head.title, workflow: a.workflow }, after: { title: head.title, workflow: 'published', revision: head.number } });
+        await audit(trx, {
+          organisationId: user.organisationId,
+          userId: user.id,
+          action: 'article.approve',
+          entityKind: 'article',
+          entityId: a.id,
+          before: { title: head.title, workflow: a.workflow },
+          after: { title: head.title, workflow: 'published', revision: head.number },
+        });
         return detail(trx, user, (await repo.find(trx, user.organisationId, id))!);
       });
     },
@@ -254,8 +262,7 @@ export function createArticlesService(deps: { db: Knex; tags: TagsService; files
       const [x, y] = await Promise.all([repo.revisionByNumber(db, a.id, from), repo.revisionByNumber(db, a.id, to)]);
       if (!x) throw AppError.notFound(`Revision ${from}`);
       if (!y) throw AppError.notFound(`Revision ${to}`);
-      const chunks = (changes: { value: string; added?: boolean; removed?: boolean }[]) =>
-        changes.map((c) => ({ value: c.value, change: c.added ? 'added' : c.removed ? 'removed' : 'same' }));
+      const chunks = (changes: { value: string; added?: boolean; removed?: boolean }[]) => changes.map((c) => ({ value: c.value, change: c.added ? 'added' : c.removed ? 'removed' : 'same' }));
       return {
         from,
         to,

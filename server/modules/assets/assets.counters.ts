@@ -210,13 +210,24 @@ export function forecasts(opts: {
     // The figure given to the calculator; null leaves it on its common-practice rule of thumb.
     const own = applicatorOwn ?? orgOwn;
     const threshold = own ?? DEFAULT_THRESHOLDS[part];
-    const renewed = opts.events
-      .filter((e) => e.actions.includes(WEAR_PART_ACTION[part]))
-      .sort((a, b) => (a.performedOn < b.performedOn ? 1 : a.performedOn > b.performedOn ? -1 : b.id - a.id))[0];
+    const renewed = opts.events.filter((e) => e.actions.includes(WEAR_PART_ACTION[part])).sort((a, b) => (a.performedOn < b.performedOn ? 1 : a.performedOn > b.performedOn ? -1 : b.id - a.id))[0];
     const start = renewed ? ((renewed.readingId !== null ? lifetimeOfReading.get(renewed.readingId) : undefined) ?? opts.model.lifetimeAt(renewed.performedOn)) : 0;
-    const base = { part, since: renewed?.performedOn ?? null, threshold, thresholdSource: applicatorOwn !== null ? ('applicator' as const) : orgOwn !== null ? ('organisation' as const) : ('common-practice' as const) };
+    const base = {
+      part,
+      since: renewed?.performedOn ?? null,
+      threshold,
+      thresholdSource: applicatorOwn !== null ? ('applicator' as const) : orgOwn !== null ? ('organisation' as const) : ('common-practice' as const),
+    };
     if (now === null || start === null) {
-      return { ...base, cyclesSince: null, cyclesPerDay: opts.model.cyclesPerDay, daysRemaining: null, dueOn: null, status: 'no-forecast', warnings: ['There is no counter reading (or expected rate) to count cycles from yet.'] };
+      return {
+        ...base,
+        cyclesSince: null,
+        cyclesPerDay: opts.model.cyclesPerDay,
+        daysRemaining: null,
+        dueOn: null,
+        status: 'no-forecast',
+        warnings: ['There is no counter reading (or expected rate) to count cycles from yet.'],
+      };
     }
     const cyclesSince = Math.max(0, Math.round(now - start));
     const perDay = opts.model.cyclesPerDay ?? 0;

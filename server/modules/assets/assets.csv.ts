@@ -8,7 +8,10 @@ import { neutraliseFormula, restoreFormulaText } from '../../../src/shared/csv-s
 
 /** Headers match ignoring case, spaces, punctuation and unit symbols' styling. */
 export function headerKey(header: string): string {
-  return header.normalize('NFKD').toLowerCase().replace(/[^a-z0-9]/g, '');
+  return header
+    .normalize('NFKD')
+    .toLowerCase()
+    .replace(/[^a-z0-9]/g, '');
 }
 
 const DELIMITER_NAMES: Record<string, string> = { ',': 'comma', ';': 'semicolon', '\t': 'tab', '|': 'vertical bar' };

@@ -116,7 +116,10 @@ export function createAssetsImport(deps: { db: Knex }) {
 
   async function check(trx: Knex, user: SessionUser, kind: ImportKind, parsed: ParsedCsv, fields: FieldView[]): Promise<Checked[]> {
     const org = user.organisationId;
-    const labelOf = new Map<string, string>([...CSV_COLUMNS[kind].map((c) => [c.key, c.header] as [string, string]), ...fields.map((f) => [`custom:${f.id}`, customFieldHeader(f)] as [string, string])]);
+    const labelOf = new Map<string, string>([
+      ...CSV_COLUMNS[kind].map((c) => [c.key, c.header] as [string, string]),
+      ...fields.map((f) => [`custom:${f.id}`, customFieldHeader(f)] as [string, string]),
+    ]);
     const headerOf = (key: string) => parsed.headers[key] ?? labelOf.get(key) ?? key;
     const dc = parsed.decimalComma;
     const out: Checked[] = [];
@@ -126,7 +129,7 @@ export function createAssetsImport(deps: { db: Knex }) {
     const siteByName = new Map(sites.map((s) => [lower(s.name), s]));
     const siteOf = (c: RowCheck) => {
       const name = c.csv.cells.site ?? '';
-      if (!name) return c.fail('site', 'Site is required'), undefined;
+      if (!name) return (c.fail('site', 'Site is required'), undefined);
       const s = siteByName.get(lower(name));
       if (!s) c.fail('site', `No site '${name}' in Beadpath yet; import or add the site first`);
       return s;
@@ -395,15 +398,24 @@ export function createAssetsImport(deps: { db: Knex }) {
       const headers = (k: ImportKind) => CSV_COLUMNS[k].map((c) => c.header);
       if (kind === 'sites') {
         const rows = await repo.sites(db, org);
-        return toCsv(headers('sites'), rows.map((s) => [s.name, s.address, s.contact]));
+        return toCsv(
+          headers('sites'),
+          rows.map((s) => [s.name, s.address, s.contact]),
+        );
       }
       if (kind === 'lines') {
         const rows = await repo.lines(db, org);
-        return toCsv(headers('lines'), rows.map((l) => [l.siteName, l.name, l.area, l.contact]));
+        return toCsv(
+          headers('lines'),
+          rows.map((l) => [l.siteName, l.name, l.area, l.contact]),
+        );
       }
       if (kind === 'fields') {
         const rows = await repo.fields(db, org);
-        return toCsv(headers('fields'), rows.map((f) => [f.name, f.type, f.unit]));
+        return toCsv(
+          headers('fields'),
+          rows.map((f) => [f.name, f.type, f.unit]),
+        );
       }
       if (kind === 'applicators') {
         const fields = await repo.fields(db, org);
@@ -424,7 +436,10 @@ export function createAssetsImport(deps: { db: Knex }) {
           .where('r.organisation_id', org)
           .select('s.name as site', 'a.tag', db.raw("to_char(r.read_on, 'YYYY-MM-DD') as read_on"), 'r.count', 'r.counter_reset', 'r.note')
           .orderByRaw('lower(s.name), lower(a.tag), r.read_on, r.id');
-        return toCsv(headers('readings'), rows.map((r) => [r.site, r.tag, r.read_on, Number(r.count), r.counter_reset, r.note]));
+        return toCsv(
+          headers('readings'),
+          rows.map((r) => [r.site, r.tag, r.read_on, Number(r.count), r.counter_reset, r.note]),
+        );
       }
       const causes = await repo.causes(db, org);
       const rows = await db('service_events as e')

@@ -153,11 +153,7 @@ export interface ServiceEventRecord {
   createdAt: string;
 }
 
-const APPLICATOR_COLUMNS = [
-  'a.*',
-  's.name as site_name',
-  'l.name as line_name',
-];
+const APPLICATOR_COLUMNS = ['a.*', 's.name as site_name', 'l.name as line_name'];
 
 function applicatorQuery(db: Knex, organisationId: number) {
   return db('applicators as a')
@@ -219,11 +215,7 @@ export const assetsRepository = {
   async sites(db: Knex, organisationId: number): Promise<SiteView[]> {
     const rows = await db('sites as s')
       .where('s.organisation_id', organisationId)
-      .select(
-        's.*',
-        db.raw('(select count(*)::int from lines l where l.site_id = s.id) as line_count'),
-        db.raw('(select count(*)::int from applicators a where a.site_id = s.id) as applicator_count'),
-      )
+      .select('s.*', db.raw('(select count(*)::int from lines l where l.site_id = s.id) as line_count'), db.raw('(select count(*)::int from applicators a where a.site_id = s.id) as applicator_count'))
       .orderByRaw('lower(s.name)');
     return rows.map((r) => ({ id: r.id, name: r.name, address: r.address, contact: r.contact, lineCount: r.line_count, applicatorCount: r.applicator_count }));
   },
@@ -355,7 +347,10 @@ export const assetsRepository = {
       .leftJoin('users as u', 'u.id', 'e.recorded_by')
       .where('e.applicator_id', applicatorId)
       .select('e.*', db.raw(day('e.performed_on', 'performed_on')), 'u.name as user_name')
-      .orderBy([{ column: 'e.performed_on', order: 'desc' }, { column: 'e.id', order: 'desc' }]);
+      .orderBy([
+        { column: 'e.performed_on', order: 'desc' },
+        { column: 'e.id', order: 'desc' },
+      ]);
     return rows.map(toServiceEvent);
   },
   async serviceEvent(db: Knex, applicatorId: number, id: number): Promise<ServiceEventRecord | undefined> {

@@ -40,7 +40,11 @@ const csvBody: RequestHandler = (req, res, next) =>
   textBody(req, res, (err: unknown) => {
     const e = err as { type?: string } | undefined;
     if (e?.type === 'entity.too.large') {
-      return next(new AppError('payload_too_large', `The file is larger than ${CSV_BODY_LIMIT_MB} MB. Split it into smaller files and import them one after the other.`, { file: `At most ${CSV_BODY_LIMIT_MB} MB` }));
+      return next(
+        new AppError('payload_too_large', `The file is larger than ${CSV_BODY_LIMIT_MB} MB. Split it into smaller files and import them one after the other.`, {
+          file: `At most ${CSV_BODY_LIMIT_MB} MB`,
+        }),
+      );
     }
     next(err);
   });

@@ -129,7 +129,11 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
     if (input.fluidFamily) {
       const families = await repo.fluidFamilies(trx, user.organisationId);
       const ok = families.some((f) => f.slug === input.fluidFamily && (f.active || f.slug === current?.fluidFamily));
-      if (!ok) errors.fluidFamily = `Unknown fluid family '${input.fluidFamily}'; use one of ${families.filter((f) => f.active).map((f) => f.slug).join(', ')}`;
+      if (!ok)
+        errors.fluidFamily = `Unknown fluid family '${input.fluidFamily}'; use one of ${families
+          .filter((f) => f.active)
+          .map((f) => f.slug)
+          .join(', ')}`;
     }
     const custom = checkCustom(await repo.fields(trx, user.organisationId), input.custom);
     Object.assign(errors, custom.errors);
@@ -200,7 +204,13 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
   }
 
   /** Adds one reading after checking it keeps the counter in order; the field named in errors is `field`. */
-  async function addReading(trx: Knex, user: SessionUser, applicatorId: number, r: { readOn: string; count: number; counterReset: boolean; note: string | null; source: 'manual' | 'service' }, field: string) {
+  async function addReading(
+    trx: Knex,
+    user: SessionUser,
+    applicatorId: number,
+    r: { readOn: string; count: number; counterReset: boolean; note: string | null; source: 'manual' | 'service' },
+    field: string,
+  ) {
     const existing = await repo.readings(trx, applicatorId);
     const problem = readingProblem(existing, r);
     if (problem) throw AppError.invalid(problem, { [field]: problem });
@@ -215,7 +225,9 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
       return db.transaction(async (trx) => {
         await repo.lockOrganisation(trx, user.organisationId);
         if (await repo.siteNameTaken(trx, user.organisationId, input.name)) throw AppError.conflict(`There is already a site called ${input.name}`, { name: 'A site with this name exists' });
-        const [row] = await trx('sites').insert({ organisation_id: user.organisationId, ...input }).returning('id');
+        const [row] = await trx('sites')
+          .insert({ organisation_id: user.organisationId, ...input })
+          .returning('id');
         return (await repo.site(trx, user.organisationId, row.id))!;
       });
     },
@@ -225,7 +237,9 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
         await repo.lockOrganisation(trx, user.organisationId);
         await mustSite(trx, user, id);
         if (await repo.siteNameTaken(trx, user.organisationId, input.name, id)) throw AppError.conflict(`There is already a site called ${input.name}`, { name: 'A site with this name exists' });
-        await trx('sites').where({ id }).update({ ...input, updated_at: trx.fn.now() });
+        await trx('sites')
+          .where({ id })
+          .update({ ...input, updated_at: trx.fn.now() });
         return (await repo.site(trx, user.organisationId, id))!;
       });
     },
@@ -259,7 +273,8 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
         if (site.id !== line.siteId && line.applicatorCount) {
           throw AppError.conflict('This line has applicators; a line keeps its site so their tags stay unique', { siteId: 'A line with applicators cannot move to another site' });
         }
-        if (await repo.lineNameTaken(trx, site.id, input.name, id)) throw AppError.conflict(`${site.name} already has a line called ${input.name}`, { name: 'A line with this name exists on the site' });
+        if (await repo.lineNameTaken(trx, site.id, input.name, id))
+          throw AppError.conflict(`${site.name} already has a line called ${input.name}`, { name: 'A line with this name exists on the site' });
         await trx('lines').where({ id }).update({ site_id: site.id, name: input.name, area: input.area, contact: input.contact, updated_at: trx.fn.now() });
         return (await repo.line(trx, user.organisationId, id))!;
       });
@@ -299,7 +314,10 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
         if (clash) throw AppError.invalid(clash, { name: clash });
         // Values already stored were checked against the old type; changing it would strand them.
         if (field.type !== input.type) {
-          const used = await trx('applicators').where({ organisation_id: user.organisationId }).whereRaw('jsonb_exists(custom, ?)', [String(id)]).first('id');
+          const used = await trx('applicators')
+            .where({ organisation_id: user.organisationId })
+            .whereRaw('jsonb_exists(custom, ?)', [String(id)])
+            .first('id');
           if (used) throw AppError.conflict(`Applicators already have values in ${field.name}; its type cannot change`, { type: 'Values are stored with the current type' });
         }
         if (await repo.fieldNameTaken(trx, user.organisationId, input.name, id)) throw AppError.conflict(`There is already a field called ${input.name}`, { name: 'A field with this name exists' });
@@ -312,7 +330,9 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
       await db.transaction(async (trx) => {
         const n = await trx('applicator_fields').where({ id, organisation_id: user.organisationId }).delete();
         if (!n) throw AppError.notFound('This field');
-        await trx('applicators').where({ organisation_id: user.organisationId }).update({ custom: trx.raw('custom - ?', [String(id)]) });
+        await trx('applicators')
+          .where({ organisation_id: user.organisationId })
+          .update({ custom: trx.raw('custom - ?', [String(id)]) });
       });
     },
 
@@ -328,7 +348,9 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
         return await db.transaction(async (trx) => {
           await repo.lockOrganisation(trx, user.organisationId);
           const cols = await prepareApplicator(trx, user, input);
-          const [row] = await trx('applicators').insert({ organisation_id: user.organisationId, created_by: user.id, ...cols }).returning('id');
+          const [row] = await trx('applicators')
+            .insert({ organisation_id: user.organisationId, created_by: user.id, ...cols })
+            .returning('id');
           return detail(trx, user, row.id);
         });
       } catch (err) {
@@ -343,7 +365,9 @@ export function createAssetsService(deps: { db: Knex; files: FilesService }) {
           await repo.lockOrganisation(trx, user.organisationId);
           const current = await mustApplicator(trx, user, id, true);
           const cols = await prepareApplicator(trx, user, input, id, current);
-          await trx('applicators').where({ id }).update({ ...cols, updated_at: trx.fn.now() });
+          await trx('applicators')
+            .where({ id })
+            .update({ ...cols, updated_at: trx.fn.now() });
           // Walks keep the words they were started with, except when they were filled from this record.
           return detail(trx, user, id);
         });

@@ -52,9 +52,7 @@ export function toUser(row: UserRow): UserRecord {
 }
 
 function base(db: Knex) {
-  return db('users as u')
-    .join('organisations as o', 'o.id', 'u.organisation_id')
-    .select('u.*', 'o.name as organisation_name', db.raw(`o.settings->>'defaultUnitSystem' as organisation_unit_system`));
+  return db('users as u').join('organisations as o', 'o.id', 'u.organisation_id').select('u.*', 'o.name as organisation_name', db.raw(`o.settings->>'defaultUnitSystem' as organisation_unit_system`));
 }
 
 export const usersRepository = {
@@ -71,13 +69,12 @@ export const usersRepository = {
     return row ? toUser(row) : null;
   },
   async listByOrganisation(db: Knex, organisationId: number) {
-    const rows = await base(db).where('u.organisation_id', organisationId).orderBy([{ column: 'u.active', order: 'desc' }, 'u.name']);
+    const rows = await base(db)
+      .where('u.organisation_id', organisationId)
+      .orderBy([{ column: 'u.active', order: 'desc' }, 'u.name']);
     return rows.map(toUser);
   },
-  async insert(
-    db: Knex,
-    u: { organisationId: number; email: string; name: string; roles: Role[]; passwordHash?: string | null; inviteHash?: string | null; inviteExpiresAt?: Date | null },
-  ) {
+  async insert(db: Knex, u: { organisationId: number; email: string; name: string; roles: Role[]; passwordHash?: string | null; inviteHash?: string | null; inviteExpiresAt?: Date | null }) {
     const [row] = await db('users')
       .insert({
         organisation_id: u.organisationId,
@@ -93,17 +90,15 @@ export const usersRepository = {
     return row.id as number;
   },
   async update(db: Knex, id: number, patch: Record<string, unknown>) {
-    await db('users').where({ id }).update({ ...patch, updated_at: db.fn.now() });
+    await db('users')
+      .where({ id })
+      .update({ ...patch, updated_at: db.fn.now() });
   },
   async touchSignIn(db: Knex, id: number) {
     await db('users').where({ id }).update({ last_sign_in_at: db.fn.now() });
   },
   async countActiveAdmins(db: Knex, organisationId: number) {
-    const row = await db('users')
-      .where({ organisation_id: organisationId, active: true })
-      .whereRaw(`'admin' = any(roles)`)
-      .count<{ count: string }[]>('* as count')
-      .first();
+    const row = await db('users').where({ organisation_id: organisationId, active: true }).whereRaw(`'admin' = any(roles)`).count<{ count: string }[]>('* as count').first();
     return Number(row?.count ?? 0);
   },
   /** Ends every session of a user at once (deactivation, password change elsewhere). */
@@ -117,7 +112,10 @@ export const usersRepository = {
 export const passwordResetsRepository = {
   async insert(db: Knex, userId: number, tokenHash: string, expiresAt: Date) {
     // Old, spent links are of no use to anyone; dropping them keeps the table small.
-    await db('password_resets').where({ user_id: userId }).where((w) => w.whereNotNull('used_at').orWhere('expires_at', '<', db.fn.now())).delete();
+    await db('password_resets')
+      .where({ user_id: userId })
+      .where((w) => w.whereNotNull('used_at').orWhere('expires_at', '<', db.fn.now()))
+      .delete();
     await db('password_resets').insert({ user_id: userId, token_hash: tokenHash, expires_at: expiresAt });
   },
   async findByHash(db: Knex, tokenHash: string, lock = false) {

@@ -6,13 +6,7 @@ import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import { z } from 'zod';
 import { PERMISSIONS, can, type Permission } from '../../../src/shared/permissions';
-import {
-  AcceptInviteInput,
-  ChangePasswordInput,
-  LoginInput,
-  UpdateProfileInput,
-  type SessionUser,
-} from '../../../src/shared/schemas/auth';
+import { AcceptInviteInput, ChangePasswordInput, LoginInput, UpdateProfileInput, type SessionUser } from '../../../src/shared/schemas/auth';
 import { ResetConfirmInput, ResetRequestInput, ResetTokenParam } from '../../../src/shared/schemas/cases';
 import { AppError } from '../../lib/app-error';
 import { ApiRouter } from '../../lib/routes';
@@ -62,8 +56,7 @@ export function authRoutes(deps: { auth: AuthService; passport: passport.Authent
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').toLowerCase()}`,
-    handler: (_req, _res, next) =>
-      next(new AppError('rate_limited', 'Too many failed sign-ins for this e-mail. Wait 15 minutes and try again.')),
+    handler: (_req, _res, next) => next(new AppError('rate_limited', 'Too many failed sign-ins for this e-mail. Wait 15 minutes and try again.')),
   });
 
   r.post('/login', 'public', loginLimiter, validate('body', LoginInput), (req: Request, res: Response, next: NextFunction) => {
@@ -122,7 +115,10 @@ export function authRoutes(deps: { auth: AuthService; passport: passport.Authent
     limit: deps.resetLimit ?? 5,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: (req) => `reset|${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').trim().toLowerCase()}`,
+    keyGenerator: (req) =>
+      `reset|${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '')
+        .trim()
+        .toLowerCase()}`,
     handler: (_req, _res, next) => next(new AppError('rate_limited', 'Too many reset requests for this e-mail. Wait 15 minutes and try again.')),
   });
 

@@ -99,10 +99,7 @@ export function seesAllCases(roles: readonly Role[]): boolean {
 }
 
 function scoped(db: Knex, user: SessionUser) {
-  const q = db('cases as c')
-    .leftJoin('users as a', 'a.id', 'c.assignee_id')
-    .leftJoin('users as cb', 'cb.id', 'c.created_by')
-    .where('c.organisation_id', user.organisationId);
+  const q = db('cases as c').leftJoin('users as a', 'a.id', 'c.assignee_id').leftJoin('users as cb', 'cb.id', 'c.created_by').where('c.organisation_id', user.organisationId);
   if (!seesAllCases(user.roles)) {
     const handedOff = user.roles.includes('author') || user.roles.includes('admin');
     q.where((w) => {
@@ -223,12 +220,25 @@ export const casesRepository = {
   },
 
   async update(db: Knex, id: number, patch: Record<string, unknown>) {
-    await db('cases').where({ id }).update({ ...patch, updated_at: db.fn.now() });
+    await db('cases')
+      .where({ id })
+      .update({ ...patch, updated_at: db.fn.now() });
   },
 
   async insertEvent(
     db: Knex,
-    e: { caseId: number; kind: string; userId: number | null; text?: string | null; fromStatus?: CaseStatus | null; toStatus?: CaseStatus | null; walkId?: number | null; mailMessageId?: number | null; assigneeId?: number | null; fileIds?: string[] },
+    e: {
+      caseId: number;
+      kind: string;
+      userId: number | null;
+      text?: string | null;
+      fromStatus?: CaseStatus | null;
+      toStatus?: CaseStatus | null;
+      walkId?: number | null;
+      mailMessageId?: number | null;
+      assigneeId?: number | null;
+      fileIds?: string[];
+    },
   ) {
     await db('case_events').insert({
       case_id: e.caseId,
@@ -335,7 +345,13 @@ export const casesRepository = {
   },
 
   async notices(db: Knex, userId: number, limit: number): Promise<NoticeView[]> {
-    const rows = await db('notices').where({ user_id: userId }).orderBy([{ column: 'created_at', order: 'desc' }, { column: 'id', order: 'desc' }]).limit(limit);
+    const rows = await db('notices')
+      .where({ user_id: userId })
+      .orderBy([
+        { column: 'created_at', order: 'desc' },
+        { column: 'id', order: 'desc' },
+      ])
+      .limit(limit);
     return rows.map((r: { id: number; kind: string; title: string; body: string | null; case_id: number | null; created_at: Date; read_at: Date | null }) => ({
       id: r.id,
       kind: r.kind,
@@ -353,7 +369,9 @@ export const casesRepository = {
   },
 
   async markNoticeRead(db: Knex, userId: number, id: number): Promise<boolean> {
-    const n = await db('notices').where({ id, user_id: userId }).update({ read_at: db.raw('coalesce(read_at, now())') });
+    const n = await db('notices')
+      .where({ id, user_id: userId })
+      .update({ read_at: db.raw('coalesce(read_at, now())') });
     return n > 0;
   },
 };

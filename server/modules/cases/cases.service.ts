@@ -112,7 +112,7 @@ export function createCasesService(deps: CasesServiceDeps) {
   }
 
   function walkView(row: LinkedWalkRow): CaseWalkView {
-    const at = row.status === 'open' ? row.current_step_id : row.ended_at_step_id ?? row.current_step_id;
+    const at = row.status === 'open' ? row.current_step_id : (row.ended_at_step_id ?? row.current_step_id);
     return {
       id: row.id,
       guideId: row.guide_id,
@@ -141,9 +141,7 @@ export function createCasesService(deps: CasesServiceDeps) {
       toStatus: r.to_status,
       walk: r.walk_id !== null ? { id: r.walk_id, guideTitle: r.guide_title ?? 'A walk' } : null,
       mail:
-        r.mail_message_id !== null && r.mail_to !== null
-          ? { id: r.mail_message_id, to: r.mail_to, subject: r.mail_subject ?? '', status: r.mail_status ?? 'queued', lastError: r.mail_error }
-          : null,
+        r.mail_message_id !== null && r.mail_to !== null ? { id: r.mail_message_id, to: r.mail_to, subject: r.mail_subject ?? '', status: r.mail_status ?? 'queued', lastError: r.mail_error } : null,
       assignee: r.assignee_id !== null && r.assignee_name !== null ? { id: r.assignee_id, name: r.assignee_name } : null,
       files: r.file_ids.map((id) => files.get(id.toLowerCase())).filter((f): f is NonNullable<typeof f> => f !== undefined),
       createdAt: r.created_at.toISOString(),
@@ -251,7 +249,14 @@ export function createCasesService(deps: CasesServiceDeps) {
         if (assignee) {
           await repo.insertEvent(trx, { caseId: id, kind: 'assigned', userId: user.id, assigneeId: assignee.id });
           if (assignee.id !== user.id) {
-            await repo.insertNotice(trx, { organisationId: user.organisationId, userId: assignee.id, caseId: id, kind: 'assigned', title: `Case ${id} assigned to you by ${user.name}`, body: input.symptom });
+            await repo.insertNotice(trx, {
+              organisationId: user.organisationId,
+              userId: assignee.id,
+              caseId: id,
+              kind: 'assigned',
+              title: `Case ${id} assigned to you by ${user.name}`,
+              body: input.symptom,
+            });
           }
         }
         return fresh(trx, user, id);
@@ -293,7 +298,14 @@ export function createCasesService(deps: CasesServiceDeps) {
         if (assignee !== undefined) {
           await repo.insertEvent(trx, { caseId: c.id, kind: 'assigned', userId: user.id, assigneeId: assignee?.id ?? null, text: assignee ? null : 'Unassigned' });
           if (assignee && assignee.id !== user.id) {
-            await repo.insertNotice(trx, { organisationId: user.organisationId, userId: assignee.id, caseId: c.id, kind: 'assigned', title: `Case ${c.id} assigned to you by ${user.name}`, body: c.symptom });
+            await repo.insertNotice(trx, {
+              organisationId: user.organisationId,
+              userId: assignee.id,
+              caseId: c.id,
+              kind: 'assigned',
+              title: `Case ${c.id} assigned to you by ${user.name}`,
+              body: c.symptom,
+            });
           }
         }
         return fresh(trx, user, c.id);
@@ -309,7 +321,9 @@ export function createCasesService(deps: CasesServiceDeps) {
           throw AppError.invalid('Use Hand off to pass a case to someone', { status: 'A case is handed off with the Hand off action, which names the person' });
         }
         if (!CASE_TRANSITIONS[c.status].includes(input.status)) {
-          throw AppError.conflict(`A case that is ${CASE_STATUS_LABELS[c.status].toLowerCase()} cannot become ${CASE_STATUS_LABELS[input.status].toLowerCase()}`, { status: 'Not allowed from the current status' });
+          throw AppError.conflict(`A case that is ${CASE_STATUS_LABELS[c.status].toLowerCase()} cannot become ${CASE_STATUS_LABELS[input.status].toLowerCase()}`, {
+            status: 'Not allowed from the current status',
+          });
         }
         await repo.update(trx, c.id, statusStamps(input.status, trx));
         await repo.insertEvent(trx, { caseId: c.id, kind: 'status', userId: user.id, fromStatus: c.status, toStatus: input.status, text: input.note });
@@ -369,7 +383,15 @@ export function createCasesService(deps: CasesServiceDeps) {
         await repo.update(trx, c.id, { status: 'handed-off', assignee_id: person.id, handed_off_at: trx.fn.now(), resolved_at: null, closed_at: null });
         await repo.insertEvent(trx, { caseId: c.id, kind: 'handoff', userId: user.id, assigneeId: person.id, walkId: input.walkId, text: input.note, fromStatus: c.status, toStatus: 'handed-off' });
         const content = handoffNotice({ organisationName: user.organisationName, assigneeName: person.name, fromName: user.name, kase: c, note: input.note, origin, walk });
-        const messageId = await mail.record(trx, { organisationId: user.organisationId, kind: 'case-handoff', to: person.email, content, caseId: c.id, fromName: user.organisationName, replyTo: user.email });
+        const messageId = await mail.record(trx, {
+          organisationId: user.organisationId,
+          kind: 'case-handoff',
+          to: person.email,
+          content,
+          caseId: c.id,
+          fromName: user.organisationName,
+          replyTo: user.email,
+        });
         messageIds.push(messageId);
         await repo.insertEvent(trx, { caseId: c.id, kind: 'email', userId: user.id, mailMessageId: messageId, text: `Hand-off notice to ${person.name}` });
         await repo.insertNotice(trx, {

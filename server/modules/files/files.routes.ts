@@ -14,7 +14,8 @@ export function filesRoutes(deps: { files: FilesService; limitMb: number }) {
   const single: RequestHandler = (req, res, next) =>
     upload.single('file')(req, res, (err: unknown) => {
       const e = err as { code?: string } | undefined;
-      if (e?.code === 'LIMIT_FILE_SIZE') return next(new AppError('payload_too_large', `The file is larger than ${deps.limitMb} MB. Make the photo smaller or split the document.`, { file: `At most ${deps.limitMb} MB` }));
+      if (e?.code === 'LIMIT_FILE_SIZE')
+        return next(new AppError('payload_too_large', `The file is larger than ${deps.limitMb} MB. Make the photo smaller or split the document.`, { file: `At most ${deps.limitMb} MB` }));
       if (e?.code) return next(AppError.invalid(`The upload could not be read (${e.code}). Send one file in the field "file".`, { file: 'Send one file' }));
       next(err);
     });

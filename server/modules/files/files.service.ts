@@ -57,7 +57,10 @@ function toFile(row: FileRow): StoredFile {
 }
 
 function cleanName(name: string): string {
-  const n = name.normalize('NFC').replace(/[^\p{L}\p{N} ._()-]/gu, '_').slice(0, 120);
+  const n = name
+    .normalize('NFC')
+    .replace(/[^\p{L}\p{N} ._()-]/gu, '_')
+    .slice(0, 120);
   return n.trim() || 'file';
 }
 
@@ -67,8 +70,12 @@ function storeRefused(err: unknown, storage: FileStorage): AppError {
   const where = storage.kind === 's3' ? 'object storage' : 'file storage';
   const error =
     why === 'no_space'
-      ? new AppError('insufficient_storage', `The file could not be stored: the ${where} is full. Nothing was saved; ask an administrator to free space, then upload again.`, { file: 'Not stored: storage full' })
-      : new AppError('unavailable', `The file could not be stored: the ${where} refused the write or is not reachable. Nothing was saved; try again in a moment.`, { file: 'Not stored: storage unavailable' });
+      ? new AppError('insufficient_storage', `The file could not be stored: the ${where} is full. Nothing was saved; ask an administrator to free space, then upload again.`, {
+          file: 'Not stored: storage full',
+        })
+      : new AppError('unavailable', `The file could not be stored: the ${where} refused the write or is not reachable. Nothing was saved; try again in a moment.`, {
+          file: 'Not stored: storage unavailable',
+        });
   (error as { cause?: unknown }).cause = err;
   return error;
 }
@@ -102,7 +109,9 @@ export function createFilesService(db: Knex, storage: FileStorage, log?: { warn:
         let row: Omit<FileRow, 'organisation_id'>;
         if (detected && PHOTO_TYPES.has(detected.mime)) {
           // The header is read before any pixel is decoded, so a declared-huge image costs nothing to refuse.
-          const header = await sharp(upload.buffer, { limitInputPixels: false }).metadata().catch(() => null);
+          const header = await sharp(upload.buffer, { limitInputPixels: false })
+            .metadata()
+            .catch(() => null);
           if (header?.width && header.height && header.width * header.height > MAX_PHOTO_PIXELS) {
             throw AppError.invalid(`The photo is ${header.width} × ${header.height} pixels; at most ${MAX_PHOTO_PIXELS / 1_000_000} megapixels are accepted. Make it smaller and upload again.`, {
               file: `At most ${MAX_PHOTO_PIXELS / 1_000_000} megapixels`,
@@ -117,7 +126,10 @@ export function createFilesService(db: Knex, storage: FileStorage, log?: { warn:
           }
           const variants: Record<string, { key: string; mime: string }> = {};
           for (const [name, width] of Object.entries(PHOTO_VARIANTS)) {
-            const out = await sharp(meta.data).resize({ width, height: width, fit: 'inside', withoutEnlargement: true }).webp({ quality: name === 'thumb' ? 70 : 82 }).toBuffer();
+            const out = await sharp(meta.data)
+              .resize({ width, height: width, fit: 'inside', withoutEnlargement: true })
+              .webp({ quality: name === 'thumb' ? 70 : 82 })
+              .toBuffer();
             const [k, v] = await put(name, out, 'image/webp', 'webp');
             variants[k] = v;
           }

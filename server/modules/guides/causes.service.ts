@@ -31,7 +31,9 @@ export function createCausesService(db: Knex) {
 
   async function list(trx: Knex, organisationId: number, opts: { includeInactive?: boolean } = {}): Promise<CauseView[]> {
     await ensure(trx, organisationId);
-    const q = trx('causes').where({ organisation_id: organisationId }).orderBy([{ column: 'active', order: 'desc' }, 'position', 'code']);
+    const q = trx('causes')
+      .where({ organisation_id: organisationId })
+      .orderBy([{ column: 'active', order: 'desc' }, 'position', 'code']);
     if (!opts.includeInactive) q.andWhere({ active: true });
     return (await q).map(toCause);
   }

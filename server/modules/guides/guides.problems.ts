@@ -21,8 +21,7 @@ export function problemsError(intro: string, problems: readonly PathProblem[], e
   const fields: Record<string, string> = {};
   for (const p of problems) fields[p.path || '_'] ??= p.message;
   const first = problems[0];
-  const message =
-    problems.length === 1 ? `${intro}: ${first.message}` : `${intro}: ${plural(problems.length, 'problem')}, the first: ${first.message}`;
+  const message = problems.length === 1 ? `${intro}: ${first.message}` : `${intro}: ${plural(problems.length, 'problem')}, the first: ${first.message}`;
   return new AppError('invalid_input', message, fields, { problems, ...extra });
 }
 

@@ -2,16 +2,7 @@
 // the caller's transaction handle; row → API mapping is spelled out field by field.
 import type { Knex } from 'knex';
 import type { GuideDraftContent } from '../../../src/shared/guides/schema';
-import type {
-  DraftState,
-  GuideEventView,
-  GuideListItem,
-  GuideStatus,
-  GuideVersionSummary,
-  GuideVersionView,
-  StepFlagView,
-  VersionState,
-} from '../../../src/shared/schemas/guides';
+import type { DraftState, GuideEventView, GuideListItem, GuideStatus, GuideVersionSummary, GuideVersionView, StepFlagView, VersionState } from '../../../src/shared/schemas/guides';
 
 export interface GuideRow {
   id: number;
@@ -121,11 +112,7 @@ export const guidesRepository = {
     return r.id;
   },
 
-  async updateGuide(
-    db: Knex,
-    id: number,
-    patch: Partial<Pick<GuideRow, 'status' | 'draft_version_id' | 'published_version_id' | 'lock_version'>> & { retired_at?: Timestamp | null },
-  ) {
+  async updateGuide(db: Knex, id: number, patch: Partial<Pick<GuideRow, 'status' | 'draft_version_id' | 'published_version_id' | 'lock_version'>> & { retired_at?: Timestamp | null }) {
     await db('guides')
       .where({ id })
       .update({ ...patch, updated_at: db.fn.now() });
@@ -150,10 +137,7 @@ export const guidesRepository = {
     return Math.max(count(v?.n), count(e?.n)) + 1;
   },
 
-  async insertVersion(
-    db: Knex,
-    row: VersionFields & { guide_id: number; number: number; created_by: number; updated_by: number },
-  ): Promise<number> {
+  async insertVersion(db: Knex, row: VersionFields & { guide_id: number; number: number; created_by: number; updated_by: number }): Promise<number> {
     const [r] = await db('guide_versions')
       .insert({ ...row, state: 'draft', content: JSON.stringify(row.content) })
       .returning('id');
@@ -255,20 +239,12 @@ export const guidesRepository = {
     return new Set(rows.map((r) => String(r.id)));
   },
 
-  async list(
-    db: Knex,
-    organisationId: number,
-    opts: { readerView: boolean; status: string; tag?: string; q?: string; symptom?: string; userId: number },
-  ): Promise<GuideListItem[]> {
+  async list(db: Knex, organisationId: number, opts: { readerView: boolean; status: string; tag?: string; q?: string; symptom?: string; userId: number }): Promise<GuideListItem[]> {
     const flags = db('step_flags').whereNull('resolved_at').groupBy('guide_id').select('guide_id', db.raw('count(*) as open_flags'));
     const walks = db('walks')
       .where({ status: 'ended' })
       .groupBy('guide_id')
-      .select(
-        'guide_id',
-        db.raw(`count(*) filter (where outcome = 'not-fixed') as not_fixed`),
-        db.raw(`count(*) filter (where outcome = 'fixed-by-other') as fixed_by_other`),
-      );
+      .select('guide_id', db.raw(`count(*) filter (where outcome = 'not-fixed') as not_fixed`), db.raw(`count(*) filter (where outcome = 'fixed-by-other') as fixed_by_other`));
     // Authors see the working copy's metadata; readers only ever the published one.
     const meta = opts.readerView ? 'p' : 'm';
     const q = db('guides as g')

@@ -245,9 +245,7 @@ export function createGuidesService(deps: GuidesServiceDeps) {
     if (!draft) throw AppError.conflict(`This guide has no draft to ${action}.`);
     if (draft.state !== state) {
       throw AppError.conflict(
-        state === 'draft'
-          ? `Version ${draft.number} is waiting for review; withdraw it from review first.`
-          : `Version ${draft.number} is not waiting for review, so it cannot be ${action}d.`,
+        state === 'draft' ? `Version ${draft.number} is waiting for review; withdraw it from review first.` : `Version ${draft.number} is not waiting for review, so it cannot be ${action}d.`,
       );
     }
     return draft;
@@ -418,7 +416,15 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         });
         await bump(trx, g, { published_version_id: draft.id, draft_version_id: null });
         await repo.event(trx, g.id, 'approved', user.id, draft.number, input.comment);
-        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'guide.approve', entityKind: 'guide', entityId: g.id, before: { publishedVersionId: g.published_version_id }, after: { title: draft.title, version: draft.number } });
+        await audit(trx, {
+          organisationId: user.organisationId,
+          userId: user.id,
+          action: 'guide.approve',
+          entityKind: 'guide',
+          entityId: g.id,
+          before: { publishedVersionId: g.published_version_id },
+          after: { title: draft.title, version: draft.number },
+        });
         return reload(trx, user, id);
       });
     },
@@ -441,7 +447,15 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         if (g.status === 'retired') throw AppError.conflict('This guide is already retired.');
         await repo.updateGuide(trx, g.id, { status: 'retired', retired_at: trx.fn.now() });
         await repo.event(trx, g.id, 'retired', user.id, null);
-        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'guide.retire', entityKind: 'guide', entityId: g.id, before: { status: g.status }, after: { status: 'retired' } });
+        await audit(trx, {
+          organisationId: user.organisationId,
+          userId: user.id,
+          action: 'guide.retire',
+          entityKind: 'guide',
+          entityId: g.id,
+          before: { status: g.status },
+          after: { status: 'retired' },
+        });
         return reload(trx, user, id);
       });
     },
@@ -452,7 +466,15 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         if (g.status !== 'retired') throw AppError.conflict('This guide is not retired.');
         await repo.updateGuide(trx, g.id, { status: 'active', retired_at: null });
         await repo.event(trx, g.id, 'restored', user.id, null);
-        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'guide.restore', entityKind: 'guide', entityId: g.id, before: { status: g.status }, after: { status: 'active' } });
+        await audit(trx, {
+          organisationId: user.organisationId,
+          userId: user.id,
+          action: 'guide.restore',
+          entityKind: 'guide',
+          entityId: g.id,
+          before: { status: g.status },
+          after: { status: 'active' },
+        });
         return reload(trx, user, id);
       });
     },
@@ -504,7 +526,14 @@ export function createGuidesService(deps: GuidesServiceDeps) {
         const meta = { title: file.guide.title, symptom: file.guide.symptom, summary: file.guide.summary ?? '', tags };
         const fields = versionFields(meta, content, await validationContext(trx, user.organisationId));
         const guide = await createGuide(trx, user, fields, 'imported', `From a file exported at ${file.exportedAt}`);
-        await audit(trx, { organisationId: user.organisationId, userId: user.id, action: 'guide.import', entityKind: 'guide', entityId: guide.id, after: { title: meta.title, causesAdded: causesAdded.length, exportedAt: file.exportedAt } });
+        await audit(trx, {
+          organisationId: user.organisationId,
+          userId: user.id,
+          action: 'guide.import',
+          entityKind: 'guide',
+          entityId: guide.id,
+          after: { title: meta.title, causesAdded: causesAdded.length, exportedAt: file.exportedAt },
+        });
         return { guide, dropped: { ...dropped, tags: droppedTags }, causesAdded };
       });
     },

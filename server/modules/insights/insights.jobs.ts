@@ -54,10 +54,7 @@ export function createInsightsDigest(deps: { db: Knex; config: Config; mail: Mai
     const as = { id: 0, organisationId, roles: ['manager'] } as unknown as SessionUser;
     const today = localToday();
     const origin = linkOrigin(config);
-    const [forecast, causes] = await Promise.all([
-      insights.forecast(as, { days: 30 }),
-      insights.causes(as, CausesQuery.parse({ from: addDays(today, -30), to: today, repeatDays: 30 })),
-    ]);
+    const [forecast, causes] = await Promise.all([insights.forecast(as, { days: 30 }), insights.causes(as, CausesQuery.parse({ from: addDays(today, -30), to: today, repeatDays: 30 }))]);
     const week = addDays(forecast.today, 7);
     const service = (r: (typeof forecast.rows)[number]): DigestService => ({
       tag: r.tag,
@@ -103,10 +100,7 @@ export function createInsightsDigest(deps: { db: Knex; config: Config; mail: Mai
     const f = await figures(organisationId);
     const ids: number[] = [];
     const result = await db.transaction(async (trx) => {
-      const claimed = await trx.raw(
-        `insert into insight_digest_runs (organisation_id, week_start, recipients) values (?, ?, 0) on conflict do nothing returning week_start`,
-        [organisationId, week],
-      );
+      const claimed = await trx.raw(`insert into insight_digest_runs (organisation_id, week_start, recipients) values (?, ?, 0) on conflict do nothing returning week_start`, [organisationId, week]);
       if (!claimed.rows.length) return { sent: 0, skipped: true };
       const org = await trx('organisations').where({ id: organisationId }).first('name');
       const managers = await managersOf(organisationId, trx);

@@ -78,7 +78,12 @@ export const insightsRepository = {
         db.raw('count(*) over () as total'),
       )
       .whereRaw('x.on_day - x.prev <= ?', [q.repeatDays])
-      .orderBy([{ column: 'x.on_day', order: 'desc' }, { column: 'x.applicator_id', order: 'asc' }, { column: 'x.code', order: 'asc' }, { column: 'x.prev', order: 'asc' }])
+      .orderBy([
+        { column: 'x.on_day', order: 'desc' },
+        { column: 'x.applicator_id', order: 'asc' },
+        { column: 'x.code', order: 'asc' },
+        { column: 'x.prev', order: 'asc' },
+      ])
       .limit(limit);
     return { total: rows.length ? Number(rows[0].total) : 0, rows };
   },
@@ -148,8 +153,16 @@ export const insightsRepository = {
 
   /** The latest seat, needle and seal replacement of each applicator, with the parts it used. */
   async lastWearServices(db: Knex, organisationId: number) {
-    const rows: { applicator_id: number; action: string; id: number; performed_on: string; actions: string[]; reading_id: number | null; parts: { name: string; partNumber?: string | null; quantity: number }[] }[] =
-      await db.raw(
+    const rows: {
+      applicator_id: number;
+      action: string;
+      id: number;
+      performed_on: string;
+      actions: string[];
+      reading_id: number | null;
+      parts: { name: string; partNumber?: string | null; quantity: number }[];
+    }[] = await db
+      .raw(
         // Per applicator and part, the newest matching event by the (applicator_id, performed_on)
         // index: thousands of short backward scans beat sorting every service ever recorded.
         `select a.id as applicator_id, x.action, e.id, to_char(e.performed_on, 'YYYY-MM-DD') as performed_on, e.actions, e.reading_id, e.parts
@@ -161,7 +174,8 @@ export const insightsRepository = {
               order by e.performed_on desc, e.id desc limit 1) e
           where a.organisation_id = ? and a.status = 'running'`,
         [organisationId],
-      ).then((r: { rows: never[] }) => r.rows);
+      )
+      .then((r: { rows: never[] }) => r.rows);
     return rows;
   },
 
@@ -179,7 +193,11 @@ export const insightsRepository = {
       .where('e.organisation_id', organisationId)
       .whereRaw(`e.actions && array['seat-replaced','needle-replaced','seals-replaced','coil-replaced']::text[]`)
       .modify((b) => {
-        if (filter.actuation || filter.fluidFamily) b.whereIn('e.applicator_id', applicators.map((a) => a.id));
+        if (filter.actuation || filter.fluidFamily)
+          b.whereIn(
+            'e.applicator_id',
+            applicators.map((a) => a.id),
+          );
       })
       .orderBy('e.id');
     return { applicators, events };
@@ -206,7 +224,10 @@ export const insightsRepository = {
       .whereRaw(`w.started_at >= ?::date::timestamp at time zone 'UTC'`, [p.from])
       .whereRaw(`w.started_at < (?::date + 1)::timestamp at time zone 'UTC'`, [p.to])
       .groupBy('w.guide_id', 'w.guide_version_id', 'v.number', 'v.title')
-      .orderBy([{ column: 'started', order: 'desc' }, { column: 'w.guide_version_id', order: 'asc' }]);
+      .orderBy([
+        { column: 'started', order: 'desc' },
+        { column: 'w.guide_version_id', order: 'asc' },
+      ]);
     const abandonedSteps: { guide_version_id: number; step_id: string; n: string }[] = await db('walks as w')
       .select('w.guide_version_id', db.raw('coalesce(w.ended_at_step_id, w.current_step_id) as step_id'), db.raw('count(*) as n'))
       .where('w.organisation_id', organisationId)
@@ -231,12 +252,14 @@ export const insightsRepository = {
   async stepTitles(db: Knex, versionIds: number[]): Promise<Map<number, Map<string, string>>> {
     const out = new Map<number, Map<string, string>>();
     if (!versionIds.length) return out;
-    const rows: { id: number; step_id: string; title: string | null }[] = await db.raw(
-      `select v.id, s->>'id' as step_id, s->>'title' as title
+    const rows: { id: number; step_id: string; title: string | null }[] = await db
+      .raw(
+        `select v.id, s->>'id' as step_id, s->>'title' as title
          from guide_versions v cross join lateral jsonb_array_elements(coalesce(v.content->'steps', '[]'::jsonb)) s
         where v.id = any(?)`,
-      [versionIds],
-    ).then((r: { rows: { id: number; step_id: string; title: string | null }[] }) => r.rows);
+        [versionIds],
+      )
+      .then((r: { rows: { id: number; step_id: string; title: string | null }[] }) => r.rows);
     for (const r of rows) {
       const m = out.get(r.id) ?? new Map<string, string>();
       if (r.title) m.set(r.step_id, r.title);

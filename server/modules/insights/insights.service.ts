@@ -96,11 +96,7 @@ export function createInsightsService(deps: { db: Knex }) {
   async function causesExact(organisationId: number, q: CausesQuery, fromSummaries = false): Promise<CausesAnswer> {
     const p = period(q);
     const src = fromSummaries ? summaryReader : repo;
-    const [counts, repeated, labels] = await Promise.all([
-      src.causeCounts(db, organisationId, q, p),
-      src.repeats(db, organisationId, q, p, MAX_REPEATS),
-      repo.causeLabels(db, organisationId),
-    ]);
+    const [counts, repeated, labels] = await Promise.all([src.causeCounts(db, organisationId, q, p), src.repeats(db, organisationId, q, p, MAX_REPEATS), repo.causeLabels(db, organisationId)]);
     const label = (code: string) => labels.get(code) ?? code;
     const byCode = new Map<string, number>();
     let fromWalks = 0;
@@ -119,7 +115,15 @@ export function createInsightsService(deps: { db: Knex }) {
       row[c.code] += c.count;
       periods.set(c.period, row);
     }
-    const repeats = repeated.rows.map((r) => ({ applicatorId: r.applicator_id, tag: r.tag, code: r.code, label: label(r.code), firstOn: r.first_on, repeatOn: r.repeat_on, daysApart: Number(r.days_apart) }));
+    const repeats = repeated.rows.map((r) => ({
+      applicatorId: r.applicator_id,
+      tag: r.tag,
+      code: r.code,
+      label: label(r.code),
+      firstOn: r.first_on,
+      repeatOn: r.repeat_on,
+      daysApart: Number(r.days_apart),
+    }));
     const total = fromWalks + fromService;
     return {
       asOf: null,
@@ -134,10 +138,7 @@ export function createInsightsService(deps: { db: Knex }) {
       bucket: q.bucket,
       trend: [...periods].sort(([a], [b]) => (a < b ? -1 : 1)).map(([periodStart, c]) => ({ period: periodStart, counts: c })),
       trendCodes,
-      empty:
-        total === 0
-          ? `No walk ended at a Finding with a cause and no service recorded a failure cause between ${p.from} and ${p.to} with these filters, so there is nothing to rank.`
-          : null,
+      empty: total === 0 ? `No walk ended at a Finding with a cause and no service recorded a failure cause between ${p.from} and ${p.to} with these filters, so there is nothing to rank.` : null,
     };
   }
 
@@ -164,7 +165,15 @@ export function createInsightsService(deps: { db: Knex }) {
       const last = lastByApplicator.get(a.id) ?? [];
       const events = last.map((s) => ({ id: s.id, performedOn: s.performed_on, actions: s.actions as never, readingId: s.reading_id }));
       const num = (v: string | null) => (v === null ? null : Number(v));
-      const views = forecasts({ model, events, actuation: a.actuation, intervals: { seat: num(a.seat_interval_cycles), needle: num(a.needle_interval_cycles), seals: num(a.seals_interval_cycles) }, expected, today, defaults });
+      const views = forecasts({
+        model,
+        events,
+        actuation: a.actuation,
+        intervals: { seat: num(a.seat_interval_cycles), needle: num(a.needle_interval_cycles), seals: num(a.seals_interval_cycles) },
+        expected,
+        today,
+        defaults,
+      });
       const reasons = new Set<string>();
       for (const v of views) {
         if (v.status === 'no-forecast' || v.dueOn === null || v.cyclesSince === null) {
@@ -303,7 +312,9 @@ export function createInsightsService(deps: { db: Knex }) {
     if (failures.length === 1) return cannot('Only one failure: one failure cannot show how spread out failures are; at least two are needed.');
     let fit: ReliabilityAnswer['fit'];
     try {
-      const mle = runCalculator('weibull', { inputs: { failures: { values: failures, unit: 'cycles' }, ...(suspensions.length ? { suspensions: { values: suspensions, unit: 'cycles' } } : {}), method: 'mle' } });
+      const mle = runCalculator('weibull', {
+        inputs: { failures: { values: failures, unit: 'cycles' }, ...(suspensions.length ? { suspensions: { values: suspensions, unit: 'cycles' } } : {}), method: 'mle' },
+      });
       const value = (k: string) => {
         const o = mle.outputs[k];
         return typeof o === 'object' ? o.value : Number.NaN;

@@ -211,11 +211,7 @@ export const MINUTES_TO_FINDING = `(round(extract(epoch from (w.ended_at - w.sta
  * refresh, or everything when `full` (or never refreshed). `snapshots` recomputes the stored
  * forecast and reliability answers when counters, services or applicators changed.
  */
-export async function refreshSummaries(
-  db: Knex,
-  organisationId: number,
-  opts: { full?: boolean; snapshots: (trx: Trx) => Promise<void> },
-): Promise<RefreshResult> {
+export async function refreshSummaries(db: Knex, organisationId: number, opts: { full?: boolean; snapshots: (trx: Trx) => Promise<void> }): Promise<RefreshResult> {
   const t0 = performance.now();
   return db.transaction(async (trx) => {
     await trx.raw('select pg_advisory_xact_lock(?, ?)', [LOCK_NS, organisationId]);
@@ -282,7 +278,13 @@ export const summaryReader = {
     const r = await db('insight_refreshes').where({ organisation_id: organisationId }).first('refreshed_at', 'full_at', 'took_ms', 'requested_at');
     const pending = await db('insight_dirty').where({ organisation_id: organisationId }).first(db.raw('1 as x'));
     return r
-      ? { refreshedAt: (r.refreshed_at as Date).toISOString(), fullAt: r.full_at ? (r.full_at as Date).toISOString() : null, tookMs: r.took_ms as number, requestedAt: r.requested_at ? (r.requested_at as Date).toISOString() : null, changesWaiting: Boolean(pending) }
+      ? {
+          refreshedAt: (r.refreshed_at as Date).toISOString(),
+          fullAt: r.full_at ? (r.full_at as Date).toISOString() : null,
+          tookMs: r.took_ms as number,
+          requestedAt: r.requested_at ? (r.requested_at as Date).toISOString() : null,
+          changesWaiting: Boolean(pending),
+        }
       : null;
   },
 
@@ -351,7 +353,8 @@ export const summaryReader = {
     const gap = (a: string, b: string) => Math.round((Date.parse(`${b}T00:00:00Z`) - Date.parse(`${a}T00:00:00Z`)) / 86_400_000);
     for (const c of chain) {
       // The same order as the exact query: the repeat of an earlier day first, then those of the day itself.
-      if (c.prev_day && c.prev_day >= p.from && gap(c.prev_day, c.day) <= q.repeatDays) out.push({ applicator_id: c.applicator_id, code: c.code, first_on: c.prev_day, repeat_on: c.day, days_apart: gap(c.prev_day, c.day), tag: c.tag });
+      if (c.prev_day && c.prev_day >= p.from && gap(c.prev_day, c.day) <= q.repeatDays)
+        out.push({ applicator_id: c.applicator_id, code: c.code, first_on: c.prev_day, repeat_on: c.day, days_apart: gap(c.prev_day, c.day), tag: c.tag });
       for (let i = 1; i < c.n; i++) out.push({ applicator_id: c.applicator_id, code: c.code, first_on: c.day, repeat_on: c.day, days_apart: 0, tag: c.tag });
       if (out.length >= limit) break;
     }
@@ -377,7 +380,10 @@ export const summaryReader = {
       .where('d.organisation_id', organisationId)
       .whereBetween('d.day', [p.from, p.to])
       .groupBy('d.guide_id', 'd.guide_version_id', 'v.number', 'v.title')
-      .orderBy([{ column: 'started', order: 'desc' }, { column: 'd.guide_version_id', order: 'asc' }]);
+      .orderBy([
+        { column: 'started', order: 'desc' },
+        { column: 'd.guide_version_id', order: 'asc' },
+      ]);
     const durations: { guide_version_id: number; minutes: number; n: string }[] = await db('insight_guide_durations')
       .select('guide_version_id', 'minutes', db.raw('sum(n) as n'))
       .where('organisation_id', organisationId)

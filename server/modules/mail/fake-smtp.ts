@@ -85,7 +85,8 @@ export function createFakeSmtp(deps: { db: Knex; logger: Logger; port?: number; 
         const raw = Buffer.concat(chunks).toString('utf8');
         const parsed = parseMail(raw);
         const from = session.envelope.mailFrom ? session.envelope.mailFrom.address : null;
-        deps.db('mail_captures')
+        deps
+          .db('mail_captures')
           .insert({
             message_id: parsed.messageId,
             envelope_from: from,

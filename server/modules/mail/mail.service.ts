@@ -7,15 +7,7 @@ import nodemailer from 'nodemailer';
 import type SMTPTransport from 'nodemailer/lib/smtp-transport';
 import PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
-import {
-  MAIL_STATUSES,
-  type MailKind,
-  type MailStatus,
-  type OutboxItem,
-  type OutboxList,
-  type OutboxListQuery,
-  type OutboxMessage,
-} from '../../../src/shared/schemas/cases';
+import { MAIL_STATUSES, type MailKind, type MailStatus, type OutboxItem, type OutboxList, type OutboxListQuery, type OutboxMessage } from '../../../src/shared/schemas/cases';
 import type { Config } from '../../config/env';
 import { AppError } from '../../lib/app-error';
 import { createFakeSmtp, type FakeSmtp } from './fake-smtp';
@@ -143,14 +135,18 @@ export function createMailService(deps: { db: Knex; config: Config; logger: Logg
   }
 
   async function update(id: number, patch: Record<string, unknown>) {
-    await db('mail_messages').where({ id }).update({ ...patch, updated_at: db.fn.now() });
+    await db('mail_messages')
+      .where({ id })
+      .update({ ...patch, updated_at: db.fn.now() });
   }
 
   /** One attempt; throws only when pg-boss should try again later. */
   async function deliver(id: number, attempt: { retryCount: number; retryLimit: number }) {
     const row = (await db('mail_messages').where({ id }).first()) as MessageRow | undefined;
     if (!row || row.status === 'sent') return;
-    await db('mail_messages').where({ id }).update({ status: 'sending', attempts: db.raw('attempts + 1'), updated_at: db.fn.now() });
+    await db('mail_messages')
+      .where({ id })
+      .update({ status: 'sending', attempts: db.raw('attempts + 1'), updated_at: db.fn.now() });
     const options = transportOptions();
     if (!options) {
       await update(id, { status: 'failed', last_error: 'No mail server is configured: set SMTP_URL or SMTP_HOST, or FAKE_SMTP=1 to keep messages locally' });
@@ -190,12 +186,7 @@ export function createMailService(deps: { db: Knex; config: Config; logger: Logg
 
   /** Queues messages whose hand-over was cut short (a crash between commit and queue). */
   async function sweep() {
-    const rows = await db('mail_messages')
-      .where({ status: 'queued' })
-      .where('created_at', '<', db.raw(`now() - interval '1 minute'`))
-      .orderBy('id')
-      .limit(500)
-      .select('id', 'job_id');
+    const rows = await db('mail_messages').where({ status: 'queued' }).where('created_at', '<', db.raw(`now() - interval '1 minute'`)).orderBy('id').limit(500).select('id', 'job_id');
     await enqueue(rows);
   }
 
@@ -314,7 +305,10 @@ export function createMailService(deps: { db: Knex; config: Config; logger: Logg
       const filtered = () => (query.status === 'all' ? base() : base().where({ status: query.status }));
       const [{ count }] = await filtered().count<{ count: string }[]>('* as count');
       const rows = (await filtered()
-        .orderBy([{ column: 'created_at', order: 'desc' }, { column: 'id', order: 'desc' }])
+        .orderBy([
+          { column: 'created_at', order: 'desc' },
+          { column: 'id', order: 'desc' },
+        ])
         .limit(query.pageSize)
         .offset((query.page - 1) * query.pageSize)) as MessageRow[];
       const byStatus = await base().select('status').count<{ status: MailStatus; count: string }[]>('* as count').groupBy('status');

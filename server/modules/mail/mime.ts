@@ -58,19 +58,16 @@ function decodeQuotedPrintable(text: string): Buffer {
 function decodeBody(part: Part): string {
   const encoding = (part.headers.get('content-transfer-encoding') ?? '7bit').toLowerCase();
   const charset = (param(part.headers.get('content-type'), 'charset') ?? 'utf-8').toLowerCase();
-  const bytes =
-    encoding === 'base64' ? Buffer.from(part.body.replace(/\s+/g, ''), 'base64') : encoding === 'quoted-printable' ? decodeQuotedPrintable(part.body) : Buffer.from(part.body, 'utf8');
+  const bytes = encoding === 'base64' ? Buffer.from(part.body.replace(/\s+/g, ''), 'base64') : encoding === 'quoted-printable' ? decodeQuotedPrintable(part.body) : Buffer.from(part.body, 'utf8');
   return new TextDecoder(charset === 'us-ascii' ? 'utf-8' : charset, { fatal: false }).decode(bytes);
 }
 
 /** RFC 2047 encoded words, as nodemailer writes non-ASCII subjects. */
 export function decodeHeader(value: string): string {
-  return value
-    .replace(/(=\?[^?]+\?[bBqQ]\?[^?]*\?=)\s+(?==\?)/g, '$1')
-    .replace(/=\?([^?]+)\?([bBqQ])\?([^?]*)\?=/g, (_m, charset: string, enc: string, data: string) => {
-      const bytes = enc.toUpperCase() === 'B' ? Buffer.from(data, 'base64') : decodeQuotedPrintable(data.replace(/_/g, ' '));
-      return new TextDecoder(charset.toLowerCase(), { fatal: false }).decode(bytes);
-    });
+  return value.replace(/(=\?[^?]+\?[bBqQ]\?[^?]*\?=)\s+(?==\?)/g, '$1').replace(/=\?([^?]+)\?([bBqQ])\?([^?]*)\?=/g, (_m, charset: string, enc: string, data: string) => {
+    const bytes = enc.toUpperCase() === 'B' ? Buffer.from(data, 'base64') : decodeQuotedPrintable(data.replace(/_/g, ' '));
+    return new TextDecoder(charset.toLowerCase(), { fatal: false }).decode(bytes);
+  });
 }
 
 function collect(part: Part, out: { text: string | null; html: string | null }) {

@@ -27,8 +27,7 @@ export interface SearchSource {
 export const MARK_OPEN = '\u27E6';
 export const MARK_CLOSE = '\u27E7';
 
-const clean = (s: unknown) =>
-  typeof s === 'string' ? s.replace(/[\u27E6\u27E7]/g, ' ').replace(/[\u0000-\u0008\u000B\u000C\u000E-\u001F]/g, ' ') : '';
+const clean = (s: unknown) => (typeof s === 'string' ? s.replace(/[\u27E6\u27E7]/g, ' ').replace(/[\u0000-\u0008\u000B\u000C\u000E-\u001F]/g, ' ') : '');
 
 /** Plain text of an editor document: every text node, blocks separated by spaces. */
 export function docText(node: unknown, out: string[] = []): string[] {

@@ -454,23 +454,24 @@ export const searchRepository = {
   async fail(db: Knex, jobs: ClaimedJob[], error: string, maxAttempts: number) {
     if (!jobs.length) return;
     await db('search_jobs')
-      .whereIn('id', jobs.map((j) => j.id))
+      .whereIn(
+        'id',
+        jobs.map((j) => j.id),
+      )
       .update({ last_error: error.slice(0, 500), status: db.raw(`case when attempts >= ? then 'failed' else 'pending' end`, [maxAttempts]), updated_at: db.fn.now() });
   },
 
   /** Meilisearch is back: everything it missed is due now, including jobs that had given up. */
   async replayNow(db: Knex, target: SearchEngineName) {
-    await db('search_jobs')
-      .where({ target })
-      .whereIn('status', ['pending', 'failed'])
-      .update({ status: 'pending', attempts: 0, next_attempt_at: db.fn.now(), updated_at: db.fn.now() });
+    await db('search_jobs').where({ target }).whereIn('status', ['pending', 'failed']).update({ status: 'pending', attempts: 0, next_attempt_at: db.fn.now(), updated_at: db.fn.now() });
   },
 
   async jobCounts(db: Knex) {
     const rows = await db('search_jobs').select('target', 'status').count('* as n').groupBy('target', 'status');
-    const errors = (
-      await db.raw(`select distinct on (target) target, last_error from search_jobs where last_error is not null order by target, updated_at desc`)
-    ).rows as { target: SearchEngineName; last_error: string }[];
+    const errors = (await db.raw(`select distinct on (target) target, last_error from search_jobs where last_error is not null order by target, updated_at desc`)).rows as {
+      target: SearchEngineName;
+      last_error: string;
+    }[];
     return { rows: rows.map((r) => ({ target: r.target as SearchEngineName, status: r.status as string, n: Number(r.n) })), errors };
   },
 };

@@ -38,7 +38,10 @@ export function searchRoutes(deps: SearchDeps): ApiRouter[] {
     res.json({ groups: await s.synonyms(req.user!.organisationId) });
   });
   a.put('/synonyms', 'search:admin', validate('body', SynonymsInput), async (req, res) => {
-    const groups = await s.replaceSynonyms(req.user!.organisationId, res.locals.body.groups.map((g: { terms: string[] }) => g.terms));
+    const groups = await s.replaceSynonyms(
+      req.user!.organisationId,
+      res.locals.body.groups.map((g: { terms: string[] }) => g.terms),
+    );
     res.json({ groups });
   });
   a.post('/reindex', 'search:admin', async (req, res) => {

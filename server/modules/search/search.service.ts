@@ -24,8 +24,7 @@ export function createSearchService(deps: SearchServiceDeps) {
   const { db, config, logger } = deps;
   const tags = createTagsService(db);
   const postgres = createPostgresEngine(db);
-  const meili: MeiliEngine | null =
-    config.MEILI_URL && config.MEILI_API_KEY ? createMeiliEngine({ url: config.MEILI_URL, apiKey: config.MEILI_API_KEY, timeoutMs: config.MEILI_TIMEOUT_MS }) : null;
+  const meili: MeiliEngine | null = config.MEILI_URL && config.MEILI_API_KEY ? createMeiliEngine({ url: config.MEILI_URL, apiKey: config.MEILI_API_KEY, timeoutMs: config.MEILI_TIMEOUT_MS }) : null;
   const health = meili
     ? new MeiliHealth(logger, async () => {
         await repo.replayNow(db, 'meilisearch');
@@ -85,8 +84,7 @@ export function createSearchService(deps: SearchServiceDeps) {
         return { ...base, engine: configured, results: [], total: 0, guidesFirst: false, tookMs: 0 };
       }
       const viaMeili = q ? await fromMeili(user, { ...query, q }) : null;
-      const result =
-        viaMeili ?? (await postgres.search({ organisationId: user.organisationId, q, kind: query.kind, tags: facetTags, limit: query.limit }));
+      const result = viaMeili ?? (await postgres.search({ organisationId: user.organisationId, q, kind: query.kind, tags: facetTags, limit: query.limit }));
       return {
         ...base,
         engine: viaMeili ? 'meilisearch' : 'postgres',
@@ -148,7 +146,6 @@ export function createSearchService(deps: SearchServiceDeps) {
       if (meili) await repo.enqueueSettings(db, organisationId);
       return { queued };
     },
-
   };
 }
 

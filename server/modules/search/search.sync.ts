@@ -75,7 +75,12 @@ export function createSync(deps: SyncDeps) {
     const { visible, gone } = await sourcesFor(jobs);
     await db.transaction(async (trx) => {
       await repo.upsertDocuments(trx, visible);
-      for (const kind of ['guide', 'article'] as const) await repo.deleteDocuments(trx, kind, gone.filter((g) => g.kind === kind).map((g) => g.refId));
+      for (const kind of ['guide', 'article'] as const)
+        await repo.deleteDocuments(
+          trx,
+          kind,
+          gone.filter((g) => g.kind === kind).map((g) => g.refId),
+        );
     });
     for (const j of jobs) dirtyWords.add(j.organisationId);
   }

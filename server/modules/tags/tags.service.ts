@@ -17,7 +17,10 @@ export const TagListInput = z.object({
     .array(
       z.object({
         group: z.enum(TAG_GROUPS, { error: `Group must be one of ${TAG_GROUPS.join(', ')}` }),
-        slug: z.string().trim().regex(/^[a-z0-9-]{1,60}$/, 'Slug uses lower-case letters, digits and hyphens'),
+        slug: z
+          .string()
+          .trim()
+          .regex(/^[a-z0-9-]{1,60}$/, 'Slug uses lower-case letters, digits and hyphens'),
         label: z.string().trim().min(1, 'Label is required').max(80),
         active: z.boolean().default(true),
       }),

@@ -114,16 +114,7 @@ export interface WalkPatch {
 
 const WALK_COLUMNS = ['w.*', 'u.name as user_name'];
 
-function toNote(r: {
-  id: number;
-  client_id: string;
-  step_id: string;
-  text: string;
-  file_ids: string[];
-  user_id: number | null;
-  user_name?: string | null;
-  created_at: Date;
-}): NoteRecord {
+function toNote(r: { id: number; client_id: string; step_id: string; text: string; file_ids: string[]; user_id: number | null; user_name?: string | null; created_at: Date }): NoteRecord {
   return {
     id: r.id,
     clientId: r.client_id,
@@ -325,19 +316,12 @@ export const walksRepository = {
   },
 
   async notes(db: Knex, walkId: number): Promise<NoteRecord[]> {
-    const rows = await db('walk_notes as n')
-      .leftJoin('users as u', 'u.id', 'n.user_id')
-      .where('n.walk_id', walkId)
-      .orderBy('n.id')
-      .select('n.*', 'u.name as user_name');
+    const rows = await db('walk_notes as n').leftJoin('users as u', 'u.id', 'n.user_id').where('n.walk_id', walkId).orderBy('n.id').select('n.*', 'u.name as user_name');
     return rows.map(toNote);
   },
 
   async noteByClientId(db: Knex, walkId: number, clientId: string): Promise<NoteRecord | undefined> {
-    const row = await db('walk_notes as n')
-      .leftJoin('users as u', 'u.id', 'n.user_id')
-      .where({ 'n.walk_id': walkId, 'n.client_id': clientId })
-      .first('n.*', 'u.name as user_name');
+    const row = await db('walk_notes as n').leftJoin('users as u', 'u.id', 'n.user_id').where({ 'n.walk_id': walkId, 'n.client_id': clientId }).first('n.*', 'u.name as user_name');
     return row ? toNote(row) : undefined;
   },
 
@@ -375,10 +359,7 @@ export const walksRepository = {
     }));
   },
 
-  async insertFlag(
-    db: Knex,
-    row: { organisationId: number; guideId: number; guideVersionId: number; stepId: string; walkId: number; userId: number; comment: string },
-  ): Promise<number> {
+  async insertFlag(db: Knex, row: { organisationId: number; guideId: number; guideVersionId: number; stepId: string; walkId: number; userId: number; comment: string }): Promise<number> {
     const [r] = await db('step_flags')
       .insert({
         organisation_id: row.organisationId,
@@ -427,11 +408,7 @@ export const walksRepository = {
     };
   },
 
-  async list(
-    db: Knex,
-    organisationId: number,
-    opts: { userId?: number; status: WalkStatus | 'all'; guideId?: number; limit: number },
-  ): Promise<WalkRecord[]> {
+  async list(db: Knex, organisationId: number, opts: { userId?: number; status: WalkStatus | 'all'; guideId?: number; limit: number }): Promise<WalkRecord[]> {
     const q = db('walks as w')
       .leftJoin('users as u', 'u.id', 'w.user_id')
       .where('w.organisation_id', organisationId)

@@ -1,16 +1,7 @@
 // /api/walks: start, list, read (with ETag polling for the live view), answer one entry or an
 // offline queue, notes, abandon, flags and the printable summary.
 import type { Knex } from 'knex';
-import {
-  AbandonInput,
-  AnswerBatchInput,
-  AnswerInput,
-  FlagInput,
-  NoteInput,
-  StartWalkInput,
-  WalkIdParam,
-  WalkListQuery,
-} from '../../../src/shared/schemas/walks';
+import { AbandonInput, AnswerBatchInput, AnswerInput, FlagInput, NoteInput, StartWalkInput, WalkIdParam, WalkListQuery } from '../../../src/shared/schemas/walks';
 import { ApiRouter } from '../../lib/routes';
 import { validate } from '../../lib/validate';
 import type { FilesService } from '../files/files.service';

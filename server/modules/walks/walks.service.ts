@@ -98,7 +98,11 @@ function refusalError(r: Refusal): AppError {
 }
 
 function sameNote(note: NoteRecord, input: NoteInput): boolean {
-  const sorted = (ids: string[]) => [...ids].map((id) => id.toLowerCase()).sort().join(',');
+  const sorted = (ids: string[]) =>
+    [...ids]
+      .map((id) => id.toLowerCase())
+      .sort()
+      .join(',');
   return note.stepId === input.stepId && note.text === input.text && sorted(note.fileIds) === sorted(input.fileIds);
 }
 
@@ -228,8 +232,7 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
       const finding = ctx.content.steps.find((s) => s.id === state.at);
       const outcome = state.outcome;
       // The finding's cause is confirmed only when its remedy fixed the fault; 'not fixed' leaves it open.
-      const causeCode =
-        outcome.outcome === 'fixed-by-other' ? (outcome.causeCode ?? null) : outcome.outcome === 'fixed' && finding?.kind === 'finding' ? finding.causeCode : null;
+      const causeCode = outcome.outcome === 'fixed-by-other' ? (outcome.causeCode ?? null) : outcome.outcome === 'fixed' && finding?.kind === 'finding' ? finding.causeCode : null;
       return { ...patch, ...end, endKind: 'finding', outcome: outcome.outcome, causeCode, outcomeNote: outcome.note?.trim() || null };
     }
     return patch;
@@ -329,7 +332,10 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
             limit: WALK_INPUT_LIMITS.listLimit,
           });
           const versions = await repo.versionsById(trx, [...new Set(walks.map((w) => w.guideVersionId))]);
-          const logs = await repo.answersOf(trx, walks.map((w) => w.id));
+          const logs = await repo.answersOf(
+            trx,
+            walks.map((w) => w.id),
+          );
           return walks.map((w): WalkListItem => {
             const version = versions.get(w.guideVersionId)!;
             const state = replayPath(version.content, logs.get(w.id) ?? []);

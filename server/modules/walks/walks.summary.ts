@@ -118,10 +118,7 @@ export function buildSummary(input: {
     const step = byId.get(entry.stepId);
     if (!step) return;
     const reading = step.kind === 'measure' && entry.answer?.kind === 'reading' ? readingDetail(step, entry.answer, entry.route) : undefined;
-    const answer =
-      reading && step.kind === 'measure' && entry.answer?.kind === 'reading'
-        ? readingWords(step, entry.answer, reading)
-        : answerWords(step, entry.answer, causeLabel);
+    const answer = reading && step.kind === 'measure' && entry.answer?.kind === 'reading' ? readingWords(step, entry.answer, reading) : answerWords(step, entry.answer, causeLabel);
     steps.push({
       position: index + 1,
       stepId: step.id,
@@ -185,9 +182,7 @@ function pathLines(s: WalkSummary): string[] {
 }
 
 function noteLines(s: WalkSummary): string[] {
-  return s.steps.flatMap((step) =>
-    step.notes.map((n) => `- ${step.title}: ${n.text || '(photo)'}${n.fileIds.length ? ` [${n.fileIds.length} photo${n.fileIds.length === 1 ? '' : 's'}]` : ''}`),
-  );
+  return s.steps.flatMap((step) => step.notes.map((n) => `- ${step.title}: ${n.text || '(photo)'}${n.fileIds.length ? ` [${n.fileIds.length} photo${n.fileIds.length === 1 ? '' : 's'}]` : ''}`));
 }
 
 function handoffText(s: WalkSummary, contact: string, message: string): string {
@@ -215,12 +210,9 @@ function recordText(s: WalkSummary): string {
   lines.push(`Status: ${s.status}${s.outcomeLabel ? `; outcome: ${s.outcomeLabel}` : ''}${s.causeLabel ? `; cause: ${s.causeLabel}` : ''}`);
   if (s.outcomeNote) lines.push(`${s.status === 'abandoned' ? 'Reason' : 'What was done'}: ${s.outcomeNote}`);
   lines.push('', 'Path:', ...pathLines(s));
-  const cautions = s.steps.flatMap((step) =>
-    step.cautions.filter((c) => c.acknowledgedAt).map((c) => `- ${step.title}: ${c.text} (acknowledged ${shownTime(c.acknowledgedAt)})`),
-  );
+  const cautions = s.steps.flatMap((step) => step.cautions.filter((c) => c.acknowledgedAt).map((c) => `- ${step.title}: ${c.text} (acknowledged ${shownTime(c.acknowledgedAt)})`));
   if (cautions.length) lines.push('', 'Cautions acknowledged:', ...cautions);
   const notes = noteLines(s);
   if (notes.length) lines.push('', 'Notes:', ...notes);
   return lines.join('\n');
 }
-

@@ -57,12 +57,37 @@ export function HelpPage() {
               </span>,
               'Make the step an Ask, Measure, Try, Finding or Hand-off.',
             ],
-            [<span><Keys>Alt</Keys> + <Keys>↑</Keys> / <Keys>↓</Keys></span>, 'Move the step up or down among its siblings.'],
-            [<span><Keys>↑</Keys> <Keys>↓</Keys></span>, 'Go to the step above or below.'],
-            [<span><Keys>←</Keys> <Keys>→</Keys></span>, 'Fold or unfold the steps under it.'],
+            [
+              <span>
+                <Keys>Alt</Keys> + <Keys>↑</Keys> / <Keys>↓</Keys>
+              </span>,
+              'Move the step up or down among its siblings.',
+            ],
+            [
+              <span>
+                <Keys>↑</Keys> <Keys>↓</Keys>
+              </span>,
+              'Go to the step above or below.',
+            ],
+            [
+              <span>
+                <Keys>←</Keys> <Keys>→</Keys>
+              </span>,
+              'Fold or unfold the steps under it.',
+            ],
             [<Keys>Delete</Keys>, 'Remove the step (you are asked first).'],
-            [<span><Keys>Ctrl</Keys> + <Keys>Z</Keys></span>, 'Undo (outside a text field).'],
-            [<span><Keys>Ctrl</Keys> + <Keys>Shift</Keys> + <Keys>Z</Keys></span>, 'Redo (outside a text field).'],
+            [
+              <span>
+                <Keys>Ctrl</Keys> + <Keys>Z</Keys>
+              </span>,
+              'Undo (outside a text field).',
+            ],
+            [
+              <span>
+                <Keys>Ctrl</Keys> + <Keys>Shift</Keys> + <Keys>Z</Keys>
+              </span>,
+              'Redo (outside a text field).',
+            ],
           ]}
         />
         <p className="mt-2 text-sm text-ink-soft">On a Mac, Cmd works where Ctrl is written.</p>
@@ -85,9 +110,8 @@ export function HelpPage() {
       <Card>
         <h2 className="mb-2 text-lg font-semibold">No signal</h2>
         <p>
-          Once Beadpath has been opened on a phone, it opens again without a connection. Guides and articles you have
-          already read stay readable, and a walk keeps your answers on the phone and sends them when the signal returns.
-          Saving guides, articles and cases needs a connection.
+          Once Beadpath has been opened on a phone, it opens again without a connection. Guides and articles you have already read stay readable, and a walk keeps your answers on the phone and sends
+          them when the signal returns. Saving guides, articles and cases needs a connection.
         </p>
       </Card>
     </div>

@@ -64,7 +64,9 @@ export function HomeRoute() {
         <div className="space-y-4">
           <div className="flex flex-wrap gap-2">
             <ButtonLink to={paths.guides}>Guides</ButtonLink>
-            <ButtonLink variant="secondary" to={paths.articleNew}>New article</ButtonLink>
+            <ButtonLink variant="secondary" to={paths.articleNew}>
+              New article
+            </ButtonLink>
           </div>
           <GuideFeedback />
           <div className="grid gap-4 lg:grid-cols-2">
@@ -80,9 +82,7 @@ export function HomeRoute() {
           {current === 'technician' ? <OpenWalks /> : null}
         </div>
       ) : null}
-      {current === 'technician' || current === 'support' ? (
-        <ArticleShortList title="Newest articles" filters={{}} empty="No article has been published yet." limit={4} />
-      ) : null}
+      {current === 'technician' || current === 'support' ? <ArticleShortList title="Newest articles" filters={{}} empty="No article has been published yet." limit={4} /> : null}
       <section aria-labelledby="calc-heading">
         <h2 id="calc-heading" className="mb-3 text-xl font-semibold">
           Calculators

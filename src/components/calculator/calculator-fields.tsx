@@ -58,15 +58,30 @@ function Row({
 }) {
   const id = useId();
   const describedBy = [error ? `${id}-err` : '', `${id}-help`].filter(Boolean).join(' ');
-  const optionalNote = decl.optional ? (decl.default !== undefined ? ` (optional, default ${decl.default}${decl.defaultUnit && decl.defaultUnit !== '1' ? ' ' + unitLabel(decl.defaultUnit) : ''})` : ' (optional)') : '';
+  const optionalNote = decl.optional
+    ? decl.default !== undefined
+      ? ` (optional, default ${decl.default}${decl.defaultUnit && decl.defaultUnit !== '1' ? ' ' + unitLabel(decl.defaultUnit) : ''})`
+      : ' (optional)'
+    : '';
 
   let control;
   if (decl.kind === 'choice') {
     control = (
       <div role="radiogroup" aria-labelledby={`${id}-label`} className="flex flex-wrap gap-2">
         {decl.choices?.map((c) => (
-          <label key={c.value} className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 ${field.text === c.value ? 'border-amber bg-amber-wash font-semibold' : 'border-rule-strong bg-paper-raised'}`}>
-            <input type="radio" className="size-4 accent-[#9C5700]" name={`${id}-${decl.name}`} value={c.value} checked={field.text === c.value} disabled={fixed} onChange={() => onChange({ ...field, text: c.value })} />
+          <label
+            key={c.value}
+            className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 ${field.text === c.value ? 'border-amber bg-amber-wash font-semibold' : 'border-rule-strong bg-paper-raised'}`}
+          >
+            <input
+              type="radio"
+              className="size-4 accent-[#9C5700]"
+              name={`${id}-${decl.name}`}
+              value={c.value}
+              checked={field.text === c.value}
+              disabled={fixed}
+              onChange={() => onChange({ ...field, text: c.value })}
+            />
             {c.label}
           </label>
         ))}
@@ -75,7 +90,15 @@ function Row({
   } else if (decl.kind === 'unit') {
     const kind = toKind;
     control = (
-      <select id={id} aria-describedby={describedBy} aria-invalid={error ? true : undefined} className={inputClass} value={field.text} disabled={fixed} onChange={(e) => onChange({ ...field, text: e.target.value })}>
+      <select
+        id={id}
+        aria-describedby={describedBy}
+        aria-invalid={error ? true : undefined}
+        className={inputClass}
+        value={field.text}
+        disabled={fixed}
+        onChange={(e) => onChange({ ...field, text: e.target.value })}
+      >
         {(kind ? UNITS[kind] : []).map((s) => (
           <option key={s.unit} value={s.unit}>
             {s.label || s.unit}

@@ -95,11 +95,7 @@ export function toSearch(calc: CalculatorDeclaration, state: FormState, outputUn
   return p;
 }
 
-export function fromSearch(
-  calc: CalculatorDeclaration,
-  params: URLSearchParams,
-  base: FormState,
-): { state: FormState; outputUnits: Record<string, string> } {
+export function fromSearch(calc: CalculatorDeclaration, params: URLSearchParams, base: FormState): { state: FormState; outputUnits: Record<string, string> } {
   const state: FormState = { ...base };
   for (const d of calc.inputs) {
     const raw = params.get(d.name);

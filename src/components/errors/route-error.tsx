@@ -23,13 +23,7 @@ export function RouteError() {
   return (
     <div className="mx-auto max-w-lg py-12 text-center" role="alert">
       <h1 className="text-2xl font-semibold">{forbidden ? 'Your roles do not open this page' : 'This page could not be shown'}</h1>
-      <p className="mt-2 text-ink-soft">
-        {forbidden
-          ? 'Ask an admin if you need access.'
-          : err instanceof Error
-            ? err.message
-            : 'An unexpected problem stopped this page. Reload to try again.'}
-      </p>
+      <p className="mt-2 text-ink-soft">{forbidden ? 'Ask an admin if you need access.' : err instanceof Error ? err.message : 'An unexpected problem stopped this page. Reload to try again.'}</p>
       <div className="mt-6 flex justify-center gap-2">
         <button type="button" className={buttonClass('secondary')} onClick={() => window.location.reload()}>
           Reload

@@ -81,7 +81,11 @@ export function AppLayout() {
               <span className="hidden max-w-40 truncate xl:inline">{me.user.name}</span>
               <span className="sr-only xl:hidden">Account</span>
             </NavLink>
-            <button type="button" className="min-h-11 whitespace-nowrap rounded-md px-3 font-semibold text-ink-soft hover:bg-paper-sunk" onClick={() => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn) })}>
+            <button
+              type="button"
+              className="min-h-11 whitespace-nowrap rounded-md px-3 font-semibold text-ink-soft hover:bg-paper-sunk"
+              onClick={() => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn) })}
+            >
               Sign out
             </button>
           </div>
@@ -114,7 +118,11 @@ export function AppLayout() {
                 </NavLink>
               </li>
               <li>
-                <button type="button" className="flex min-h-11 w-full items-center rounded-md px-3 font-semibold text-ink-soft" onClick={() => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn) })}>
+                <button
+                  type="button"
+                  className="flex min-h-11 w-full items-center rounded-md px-3 font-semibold text-ink-soft"
+                  onClick={() => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn) })}
+                >
                   Sign out
                 </button>
               </li>
@@ -137,9 +145,8 @@ export function AppLayout() {
       </main>
       <footer className="border-t border-rule bg-paper-sunk px-4 py-4 text-sm text-ink-soft">
         <p className="mx-auto max-w-6xl">
-          Beadpath guides and calculators support trained people; they do not replace them. Before servicing a valve, follow
-          local codes, your site&rsquo;s rules, the equipment maker&rsquo;s manual and the fluid&rsquo;s safety data sheet: lock
-          out and tag out every energy source and relieve air and fluid pressure first. Signed in as {me.user.email} ·{' '}
+          Beadpath guides and calculators support trained people; they do not replace them. Before servicing a valve, follow local codes, your site&rsquo;s rules, the equipment maker&rsquo;s manual
+          and the fluid&rsquo;s safety data sheet: lock out and tag out every energy source and relieve air and fluid pressure first. Signed in as {me.user.email} ·{' '}
           {me.user.roles.map((r) => ROLE_LABELS[r]).join(', ')} · {me.user.organisationName} ·{' '}
           <Link to={paths.help} className="font-semibold text-amber-deep underline">
             Help and keyboard shortcuts

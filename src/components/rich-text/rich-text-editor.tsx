@@ -128,19 +128,37 @@ export function RichTextEditor({ value, onChange, upload, label, attach }: RichT
     if (!editor) return;
     const url = href.trim();
     if (!url) editor.chain().focus().extendMarkRange('link').unsetLink().run();
-    else editor.chain().focus().extendMarkRange('link').setLink({ href: /^(https?:|mailto:|\/)/i.test(url) ? url : `https://${url}` }).run();
+    else
+      editor
+        .chain()
+        .focus()
+        .extendMarkRange('link')
+        .setLink({ href: /^(https?:|mailto:|\/)/i.test(url) ? url : `https://${url}` })
+        .run();
     setLinkOpen(false);
   }
 
   return (
     <div className="rounded-md border border-rule-strong bg-paper-raised">
       <div role="toolbar" aria-label={`${label} formatting`} className="sticky top-14 z-10 flex flex-wrap gap-1 border-b border-rule bg-paper-raised p-1">
-        <ToolButton label="Heading" active={state.h2} onClick={() => editor.chain().focus().toggleHeading({ level: 2 }).run()}>H2</ToolButton>
-        <ToolButton label="Subheading" active={state.h3} onClick={() => editor.chain().focus().toggleHeading({ level: 3 }).run()}>H3</ToolButton>
-        <ToolButton label="Bold" active={state.bold} onClick={() => editor.chain().focus().toggleBold().run()}>B</ToolButton>
-        <ToolButton label="Italic" active={state.italic} onClick={() => editor.chain().focus().toggleItalic().run()}><i>I</i></ToolButton>
-        <ToolButton label="Bulleted list" active={state.bullet} onClick={() => editor.chain().focus().toggleBulletList().run()}>• List</ToolButton>
-        <ToolButton label="Numbered steps" active={state.ordered} onClick={() => editor.chain().focus().toggleOrderedList().run()}>1. Steps</ToolButton>
+        <ToolButton label="Heading" active={state.h2} onClick={() => editor.chain().focus().toggleHeading({ level: 2 }).run()}>
+          H2
+        </ToolButton>
+        <ToolButton label="Subheading" active={state.h3} onClick={() => editor.chain().focus().toggleHeading({ level: 3 }).run()}>
+          H3
+        </ToolButton>
+        <ToolButton label="Bold" active={state.bold} onClick={() => editor.chain().focus().toggleBold().run()}>
+          B
+        </ToolButton>
+        <ToolButton label="Italic" active={state.italic} onClick={() => editor.chain().focus().toggleItalic().run()}>
+          <i>I</i>
+        </ToolButton>
+        <ToolButton label="Bulleted list" active={state.bullet} onClick={() => editor.chain().focus().toggleBulletList().run()}>
+          • List
+        </ToolButton>
+        <ToolButton label="Numbered steps" active={state.ordered} onClick={() => editor.chain().focus().toggleOrderedList().run()}>
+          1. Steps
+        </ToolButton>
         <ToolButton
           label="Link"
           active={state.link}
@@ -151,22 +169,40 @@ export function RichTextEditor({ value, onChange, upload, label, attach }: RichT
         >
           Link
         </ToolButton>
-        <ToolButton label="Photo" onClick={() => fileInput.current?.click()}>Photo</ToolButton>
-        {attach ? <ToolButton label="Attach a PDF" onClick={() => docInput.current?.click()}>PDF</ToolButton> : null}
-        <ToolButton label="Table" active={state.table} onClick={() => editor.chain().focus().insertTable({ rows: 3, cols: 3, withHeaderRow: true }).run()}>Table</ToolButton>
+        <ToolButton label="Photo" onClick={() => fileInput.current?.click()}>
+          Photo
+        </ToolButton>
+        {attach ? (
+          <ToolButton label="Attach a PDF" onClick={() => docInput.current?.click()}>
+            PDF
+          </ToolButton>
+        ) : null}
+        <ToolButton label="Table" active={state.table} onClick={() => editor.chain().focus().insertTable({ rows: 3, cols: 3, withHeaderRow: true }).run()}>
+          Table
+        </ToolButton>
         {state.table ? (
           <>
-            <ToolButton label="Add row" onClick={() => editor.chain().focus().addRowAfter().run()}>+Row</ToolButton>
-            <ToolButton label="Add column" onClick={() => editor.chain().focus().addColumnAfter().run()}>+Col</ToolButton>
-            <ToolButton label="Delete table" onClick={() => editor.chain().focus().deleteTable().run()}>−Table</ToolButton>
+            <ToolButton label="Add row" onClick={() => editor.chain().focus().addRowAfter().run()}>
+              +Row
+            </ToolButton>
+            <ToolButton label="Add column" onClick={() => editor.chain().focus().addColumnAfter().run()}>
+              +Col
+            </ToolButton>
+            <ToolButton label="Delete table" onClick={() => editor.chain().focus().deleteTable().run()}>
+              −Table
+            </ToolButton>
           </>
         ) : null}
         <ToolButton label="Caution" active={state.caution} onClick={() => (state.caution ? editor.chain().focus().lift('caution').run() : setCautionOpen(true))}>
           <span className="text-danger">⚠</span> Caution
         </ToolButton>
         <span className="mx-1 w-px bg-rule" aria-hidden />
-        <ToolButton label="Undo" disabled={!state.canUndo} onClick={() => editor.chain().focus().undo().run()}>Undo</ToolButton>
-        <ToolButton label="Redo" disabled={!state.canRedo} onClick={() => editor.chain().focus().redo().run()}>Redo</ToolButton>
+        <ToolButton label="Undo" disabled={!state.canUndo} onClick={() => editor.chain().focus().undo().run()}>
+          Undo
+        </ToolButton>
+        <ToolButton label="Redo" disabled={!state.canRedo} onClick={() => editor.chain().focus().redo().run()}>
+          Redo
+        </ToolButton>
         {attach ? (
           <input
             ref={docInput}
@@ -183,7 +219,10 @@ export function RichTextEditor({ value, onChange, upload, label, attach }: RichT
                 editor
                   .chain()
                   .focus()
-                  .insertContent([{ type: 'text', text: `${name} (PDF)`, marks: [{ type: 'link', attrs: { href } }] }, { type: 'text', text: ' ' }])
+                  .insertContent([
+                    { type: 'text', text: `${name} (PDF)`, marks: [{ type: 'link', attrs: { href } }] },
+                    { type: 'text', text: ' ' },
+                  ])
                   .run();
               } catch (err) {
                 showToast(`The document was not attached: ${errorMessage(err)}`, 'error');
@@ -218,8 +257,12 @@ export function RichTextEditor({ value, onChange, upload, label, attach }: RichT
             required
           />
           <div className="flex justify-end gap-2">
-            <Button variant="secondary" onClick={() => setPendingImage(null)}>Cancel</Button>
-            <Button type="submit" busy={uploading} disabled={!alt.trim()}>Add photo</Button>
+            <Button variant="secondary" onClick={() => setPendingImage(null)}>
+              Cancel
+            </Button>
+            <Button type="submit" busy={uploading} disabled={!alt.trim()}>
+              Add photo
+            </Button>
           </div>
         </form>
       </Dialog>
@@ -228,7 +271,9 @@ export function RichTextEditor({ value, onChange, upload, label, attach }: RichT
         <form onSubmit={applyLink} className="space-y-4">
           <TextField label="Address" placeholder="https://… or /articles/12" value={href} onChange={(e) => setHref(e.target.value)} autoFocus hint="Leave empty to remove the link." />
           <div className="flex justify-end gap-2">
-            <Button variant="secondary" onClick={() => setLinkOpen(false)}>Cancel</Button>
+            <Button variant="secondary" onClick={() => setLinkOpen(false)}>
+              Cancel
+            </Button>
             <Button type="submit">Apply</Button>
           </div>
         </form>
@@ -246,12 +291,18 @@ export function RichTextEditor({ value, onChange, upload, label, attach }: RichT
           <p className="text-ink-soft">The selected paragraphs become a caution. Say what the danger is and what to do before going on.</p>
           <SelectField label="Hazard" value={hazard} onChange={(e) => setHazard(e.target.value as Hazard)}>
             {HAZARD_KEYS.map((h) => (
-              <option key={h} value={h}>{HAZARDS[h]}</option>
+              <option key={h} value={h}>
+                {HAZARDS[h]}
+              </option>
             ))}
           </SelectField>
           <div className="flex justify-end gap-2">
-            <Button variant="secondary" onClick={() => setCautionOpen(false)}>Cancel</Button>
-            <Button type="submit" variant="danger">Add caution</Button>
+            <Button variant="secondary" onClick={() => setCautionOpen(false)}>
+              Cancel
+            </Button>
+            <Button type="submit" variant="danger">
+              Add caution
+            </Button>
           </div>
         </form>
       </Dialog>

@@ -10,10 +10,7 @@ interface FieldProps {
   hint?: ReactNode;
 }
 
-export const TextField = forwardRef<HTMLInputElement, FieldProps & InputHTMLAttributes<HTMLInputElement>>(function TextField(
-  { label, error, hint, id, className = '', ...rest },
-  ref,
-) {
+export const TextField = forwardRef<HTMLInputElement, FieldProps & InputHTMLAttributes<HTMLInputElement>>(function TextField({ label, error, hint, id, className = '', ...rest }, ref) {
   const auto = useId();
   const fieldId = id ?? auto;
   return (
@@ -21,14 +18,7 @@ export const TextField = forwardRef<HTMLInputElement, FieldProps & InputHTMLAttr
       <label htmlFor={fieldId} className="mb-1 block text-sm font-semibold text-ink">
         {label}
       </label>
-      <input
-        ref={ref}
-        id={fieldId}
-        className={inputClass}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined}
-        {...rest}
-      />
+      <input ref={ref} id={fieldId} className={inputClass} aria-invalid={error ? true : undefined} aria-describedby={error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined} {...rest} />
       {hint && !error ? (
         <p id={`${fieldId}-hint`} className="mt-1 text-sm text-ink-soft">
           {hint}
@@ -51,13 +41,7 @@ export function SelectField({ label, error, hint, id, children, className = '', 
       <label htmlFor={fieldId} className="mb-1 block text-sm font-semibold text-ink">
         {label}
       </label>
-      <select
-        id={fieldId}
-        className={inputClass}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined}
-        {...rest}
-      >
+      <select id={fieldId} className={inputClass} aria-invalid={error ? true : undefined} aria-describedby={error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined} {...rest}>
         {children}
       </select>
       {hint && !error ? (
@@ -65,7 +49,11 @@ export function SelectField({ label, error, hint, id, children, className = '', 
           {hint}
         </p>
       ) : null}
-      {error ? <p id={`${fieldId}-error`} className="mt-1 text-sm font-semibold text-danger">{error}</p> : null}
+      {error ? (
+        <p id={`${fieldId}-error`} className="mt-1 text-sm font-semibold text-danger">
+          {error}
+        </p>
+      ) : null}
     </div>
   );
 }

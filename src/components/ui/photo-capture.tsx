@@ -9,7 +9,10 @@ export function PhotoCaptureButton({ onAdded }: { onAdded: (photo: { id: string;
   // null: not uploading; otherwise the share sent so far.
   const [sent, setSent] = useState<number | null>(null);
   return (
-    <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold" data-upload-progress={sent === null ? undefined : percent(sent)}>
+    <label
+      className="inline-flex min-h-11 cursor-pointer items-center rounded-md border border-rule-strong bg-paper-raised px-4 font-semibold"
+      data-upload-progress={sent === null ? undefined : percent(sent)}
+    >
       <span aria-live="polite">{sent !== null ? `Uploading the photo… ${percent(sent)}` : 'Take or add a photo'}</span>
       <input
         type="file"

@@ -169,26 +169,11 @@ export const airPistonForce: Calculator = {
     const marginAtFullLift = pistonForce - closingAtFullLift;
     const warnings: CalculatorWarning[] = [];
     if (marginAtCrack < 0) {
-      warnings.push(
-        warning(
-          'cannot-open',
-          `The valve cannot open: the closing forces exceed the air force by ${fmt(-marginAtCrack)} N. Raise the air pressure or lower the fluid pressure.`,
-        ),
-      );
+      warnings.push(warning('cannot-open', `The valve cannot open: the closing forces exceed the air force by ${fmt(-marginAtCrack)} N. Raise the air pressure or lower the fluid pressure.`));
     } else if (marginAtFullLift < 0) {
-      warnings.push(
-        warning(
-          'cannot-open',
-          `The valve cracks open but cannot reach full lift: it falls ${fmt(-marginAtFullLift)} N short at full lift.`,
-        ),
-      );
+      warnings.push(warning('cannot-open', `The valve cracks open but cannot reach full lift: it falls ${fmt(-marginAtFullLift)} N short at full lift.`));
     } else if (Math.min(marginAtCrack, marginAtFullLift) < LOW_MARGIN_FRACTION * pistonForce) {
-      warnings.push(
-        warning(
-          'low-margin',
-          'The opening margin is under 20 % of the piston force: air pressure sag, seal drag or a thicker fluid may stop the valve opening fully.',
-        ),
-      );
+      warnings.push(warning('low-margin', 'The opening margin is under 20 % of the piston force: air pressure sag, seal drag or a thicker fluid may stop the valve opening fully.'));
     }
     return {
       outputs: {

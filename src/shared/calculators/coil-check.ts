@@ -135,12 +135,7 @@ export const coilCheck: Calculator = {
     const r20 = resistanceAt20(measured, measuredAt);
     const hotResistance = resistanceAt(r20, operating);
     const verdict = coilVerdict(nominal, measured, r20, tolerance);
-    const warnings = [
-      warning(
-        'ac-or-pwm',
-        'Current and power here assume steady DC. For AC coils current is set by impedance, and with PWM or spike-and-hold drivers it is not V/R.',
-      ),
-    ];
+    const warnings = [warning('ac-or-pwm', 'Current and power here assume steady DC. For AC coils current is set by impedance, and with PWM or spike-and-hold drivers it is not V/R.')];
     const deviation = (r20 - nominal) / nominal;
     return {
       outputs: {

@@ -88,10 +88,7 @@ export const dot: Calculator = {
     'From the contact angle θc: h = a tan(θc / 2)',
     'Mass m = ρ V; per hour = m × dots per part × parts per minute × 60',
   ].join('\n'),
-  limits: [
-    'The cap shape holds only while gravity is negligible (Bond number ρ g a² / σ much less than 1); large dots flatten.',
-    'Nominal shape: weigh a counted number of dots to calibrate.',
-  ],
+  limits: ['The cap shape holds only while gravity is negligible (Bond number ρ g a² / σ much less than 1); large dots flatten.', 'Nominal shape: weigh a counted number of dots to calibrate.'],
   references: [
     { text: 'CRC Standard Mathematical Tables and Formulae (Zwillinger, ed., 33rd ed.), spherical segment/cap', tag: 'memory' },
     { text: 'Cap height from the contact angle, h = a tan(θc/2)', tag: 'derived' },

@@ -106,10 +106,7 @@ export const needleLift: Calculator = {
     const warnings: CalculatorWarning[] = [];
     if (h >= geometryLimit(d, theta)) {
       warnings.push(
-        warning(
-          'outside-geometry',
-          'The lift is past the range of the flow-area formula (d / (2 sinθ cosθ)); the area shown is not meaningful. Flow is limited by the seat opening long before this.',
-        ),
+        warning('outside-geometry', 'The lift is past the range of the flow-area formula (d / (2 sinθ cosθ)); the area shown is not meaningful. Flow is limited by the seat opening long before this.'),
       );
     }
     return {

@@ -109,12 +109,7 @@ export const nozzleFlowPowerLaw: Calculator = {
     const wallShearStress = (pressureDrop * radius) / (2 * length);
     const warnings: CalculatorWarning[] = [];
     if (n < 0.1 || n > 1.5) {
-      warnings.push(
-        warning(
-          'power-law-index',
-          `Flow index n = ${fmt(n, 3)} is outside the usual 0.1 to 1.5; check the fit, as the power law is unlikely to describe this fluid.`,
-        ),
-      );
+      warnings.push(warning('power-law-index', `Flow index n = ${fmt(n, 3)} is outside the usual 0.1 to 1.5; check the fit, as the power law is unlikely to describe this fluid.`));
     }
     if (n < STRONGLY_SHEAR_THINNING) {
       warnings.push(

@@ -31,15 +31,7 @@ export const LAMINAR_LIMIT = 2100;
 export const NEAR_TRANSITION = 1500;
 
 /** Laminar-flow validity warnings shared by the Newtonian and power-law needle calculators. */
-export function laminarWarnings(args: {
-  reynolds: number;
-  diameter: number;
-  length: number;
-  density: number;
-  meanVelocity: number;
-  pressureDrop: number;
-  model: string;
-}): CalculatorWarning[] {
+export function laminarWarnings(args: { reynolds: number; diameter: number; length: number; density: number; meanVelocity: number; pressureDrop: number; model: string }): CalculatorWarning[] {
   const { reynolds, diameter, length, density, meanVelocity, pressureDrop, model } = args;
   const warnings: CalculatorWarning[] = [];
   if (reynolds > LAMINAR_LIMIT) {
@@ -51,12 +43,7 @@ export function laminarWarnings(args: {
       ),
     );
   } else if (reynolds >= NEAR_TRANSITION) {
-    warnings.push(
-      warning(
-        'transitional',
-        `Reynolds number ${fmt(reynolds)} is close to the laminar limit of about 2,100; treat the result with care.`,
-      ),
-    );
+    warnings.push(warning('transitional', `Reynolds number ${fmt(reynolds)} is close to the laminar limit of about 2,100; treat the result with care.`));
   }
   const entrance = 0.06 * reynolds * diameter;
   // The developing-flow region has a higher pressure gradient; once it is a tenth of the needle it shows.
@@ -71,20 +58,12 @@ export function laminarWarnings(args: {
   }
   const kinetic = pressureDrop > 0 ? (density * meanVelocity * meanVelocity) / pressureDrop : 0;
   if (kinetic > 0.1) {
-    warnings.push(
-      warning(
-        'entry-loss',
-        `Entry and exit losses are not small: ρv̄²/ΔP is ${fmt(kinetic, 3)}, where the formula needs it much less than 1. Expect less flow than shown.`,
-      ),
-    );
+    warnings.push(warning('entry-loss', `Entry and exit losses are not small: ρv̄²/ΔP is ${fmt(kinetic, 3)}, where the formula needs it much less than 1. Expect less flow than shown.`));
   }
   return warnings;
 }
 
-export const noDensityWarning = warning(
-  'no-density',
-  'No density given, so the Reynolds number and the laminar-flow check are left out.',
-);
+export const noDensityWarning = warning('no-density', 'No density given, so the Reynolds number and the laminar-flow check are left out.');
 
 /** "Give exactly one of pressure drop or flow rate", shared by both needle calculators. */
 export function checkPressureOrFlow(context: ComputeContext): Record<string, string> {

@@ -1,29 +1,8 @@
 // Turns an API request into SI inputs for one calculator, checks every field, runs it and puts the
 // outputs back into the units asked for. All field problems are collected before anything throws.
 import { z } from 'zod';
-import {
-  KIND_LABELS,
-  UNITS,
-  absoluteZeroMessage,
-  formatNumber,
-  fromSI,
-  isUnitOf,
-  kindOfUnit,
-  kindsOfUnit,
-  toSI,
-  unitLabel,
-  type QuantityKind,
-} from '../units';
-import {
-  CalculatorInputError,
-  type Calculator,
-  type CalculatorResponse,
-  type ComputeContext,
-  type ComputeInputs,
-  type InputDeclaration,
-  type OutputDeclaration,
-  type QuantityValue,
-} from './types';
+import { KIND_LABELS, UNITS, absoluteZeroMessage, formatNumber, fromSI, isUnitOf, kindOfUnit, kindsOfUnit, toSI, unitLabel, type QuantityKind } from '../units';
+import { CalculatorInputError, type Calculator, type CalculatorResponse, type ComputeContext, type ComputeInputs, type InputDeclaration, type OutputDeclaration, type QuantityValue } from './types';
 
 export const QuantityInput = z.object({ value: z.number(), unit: z.string() });
 export const ListInput = z.object({ values: z.array(z.number()), unit: z.string() });
@@ -186,8 +165,7 @@ function readChoice(decl: InputDeclaration, raw: unknown, state: ReadState): voi
 function readUnitName(decl: InputDeclaration, raw: unknown, state: ReadState): void {
   const kind = typeof raw === 'string' ? kindOfUnit(raw) : undefined;
   if (typeof raw !== 'string' || !kind) {
-    state.errors[`inputs.${decl.name}`] =
-      typeof raw === 'string' ? `Unknown unit '${raw}' for ${lowerFirst(decl.label)}` : `${decl.label} must be a unit spelling such as "mm"`;
+    state.errors[`inputs.${decl.name}`] = typeof raw === 'string' ? `Unknown unit '${raw}' for ${lowerFirst(decl.label)}` : `${decl.label} must be a unit spelling such as "mm"`;
     return;
   }
   state.si[decl.name] = raw;

@@ -119,13 +119,7 @@ export const serviceForecastCalculator: Calculator = {
     const part = text(inputs, 'part') as WearPart;
     const given = optNum(inputs, 'threshold');
     const threshold = given ?? DEFAULT_THRESHOLDS[part];
-    const forecast = serviceForecast(
-      num(inputs, 'cycleRate'),
-      num(inputs, 'hoursPerDay'),
-      num(inputs, 'activeFraction'),
-      num(inputs, 'cyclesSoFar'),
-      threshold,
-    );
+    const forecast = serviceForecast(num(inputs, 'cycleRate'), num(inputs, 'hoursPerDay'), num(inputs, 'activeFraction'), num(inputs, 'cyclesSoFar'), threshold);
     const warnings: CalculatorWarning[] = [];
     if (given === undefined) {
       warnings.push(

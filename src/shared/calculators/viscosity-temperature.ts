@@ -114,12 +114,7 @@ export const viscosityTemperature: Calculator = {
     const fit = andradeFit(t1, mu1, t2, mu2);
     const warnings: CalculatorWarning[] = [];
     if (t < Math.min(t1, t2) || t > Math.max(t1, t2)) {
-      warnings.push(
-        warning(
-          'extrapolation',
-          'The temperature wanted is outside the two measured temperatures, so this is an extrapolation: expect errors of several percent or more.',
-        ),
-      );
+      warnings.push(warning('extrapolation', 'The temperature wanted is outside the two measured temperatures, so this is an extrapolation: expect errors of several percent or more.'));
     }
     if (fit.b < 0) {
       warnings.push(

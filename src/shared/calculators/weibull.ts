@@ -34,8 +34,7 @@ export function weibullLogLikelihood(failures: number[], suspensions: number[], 
 
 // Lanczos approximation (g = 7, n = 9), good to about 1e-15 for the arguments used here.
 const LANCZOS = [
-  0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059,
-  12.507343278686905, -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7,
+  0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059, 12.507343278686905, -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7,
 ];
 
 export function gammaFunction(x: number): number {
@@ -263,9 +262,7 @@ export const weibull: Calculator = {
     }
     const age = optNum(inputs, 'age');
     if (age !== undefined && age < Math.min(...failures)) {
-      warnings.push(
-        warning('extrapolation', 'The age is below the first failure, so the reliability there is an extrapolation of the fitted model.'),
-      );
+      warnings.push(warning('extrapolation', 'The age is below the first failure, so the reliability there is an extrapolation of the fitted model.'));
     }
     return {
       outputs: {

@@ -2,16 +2,7 @@
 // every problem reported at its place in the file, and the JSON Schema the docs are built from.
 import { z } from 'zod';
 import { listCalculators } from '../calculators';
-import {
-  CODE_PATTERN,
-  GUIDE_LIMITS,
-  GuideContent,
-  GuideDraftContent,
-  GuideMetaFields,
-  labelledObject,
-  requiredText,
-  type GuideMeta,
-} from './schema';
+import { CODE_PATTERN, GUIDE_LIMITS, GuideContent, GuideDraftContent, GuideMetaFields, labelledObject, requiredText, type GuideMeta } from './schema';
 import { validateGuide, type ValidationContext } from './validate';
 
 export const GUIDE_FILE_FORMAT = 'beadpath-guide';
@@ -26,10 +17,7 @@ export type CauseEntry = z.infer<typeof CauseEntry>;
 export const GuideFileGuide = labelledObject('Guide', {
   ...GuideMetaFields,
   /** Definitions of the cause codes the findings use, so the receiving site can map or add them. */
-  causes: z
-    .array(CauseEntry, { error: 'Causes must be a list' })
-    .max(GUIDE_LIMITS.causes, `Causes: at most ${GUIDE_LIMITS.causes} allowed`)
-    .optional(),
+  causes: z.array(CauseEntry, { error: 'Causes must be a list' }).max(GUIDE_LIMITS.causes, `Causes: at most ${GUIDE_LIMITS.causes} allowed`).optional(),
 });
 export type GuideFileGuide = z.infer<typeof GuideFileGuide>;
 
@@ -38,9 +26,7 @@ function fileSchema<C extends z.ZodType>(content: C) {
     format: z.literal(GUIDE_FILE_FORMAT, { error: `This is not a Beadpath guide file: "format" must be "${GUIDE_FILE_FORMAT}"` }),
     formatVersion: z.literal(GUIDE_FILE_VERSION, {
       error: (issue) =>
-        typeof issue.input === 'number'
-          ? `This file is format version ${issue.input}; this Beadpath reads version ${GUIDE_FILE_VERSION}`
-          : `"formatVersion" must be ${GUIDE_FILE_VERSION}`,
+        typeof issue.input === 'number' ? `This file is format version ${issue.input}; this Beadpath reads version ${GUIDE_FILE_VERSION}` : `"formatVersion" must be ${GUIDE_FILE_VERSION}`,
     }),
     exportedAt: z.iso.datetime({ error: '"exportedAt" must be a UTC date and time such as 2025-01-31T12:00:00Z' }),
     guide: GuideFileGuide,
@@ -50,8 +36,7 @@ function fileSchema<C extends z.ZodType>(content: C) {
 
 export const GuideFile = fileSchema(GuideContent).meta({
   title: 'Beadpath guide file',
-  description:
-    'One troubleshooting guide (its metadata, the causes its findings use and its steps) as exported by Beadpath. See docs/guide-format.md.',
+  description: 'One troubleshooting guide (its metadata, the causes its findings use and its steps) as exported by Beadpath. See docs/guide-format.md.',
 });
 export type GuideFile = z.infer<typeof GuideFile>;
 
@@ -122,8 +107,7 @@ export function parseGuideFile(json: unknown, ctx: ValidationContext = {}): Pars
 
   const content = GuideDraftContent.safeParse(json.content);
   if (content.success) {
-    const causeCodes =
-      declared || ctx.causeCodes ? [...(declared ?? []).map((cause) => cause.code), ...(ctx.causeCodes ?? [])] : undefined;
+    const causeCodes = declared || ctx.causeCodes ? [...(declared ?? []).map((cause) => cause.code), ...(ctx.causeCodes ?? [])] : undefined;
     const validation = validateGuide(content.data, {
       ...ctx,
       calculators: ctx.calculators ?? listCalculators(),

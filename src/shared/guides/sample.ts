@@ -196,8 +196,7 @@ export const SAMPLE_GUIDE: GuideContent = {
       title: 'Clean the seat and the needle tip',
       ...none,
       cautions: [lockOut, relievePressure, solvent],
-      action:
-        "Take out the needle, clean the seat and the needle tip with the solvent named on the fluid's data sheet and a soft brush, look at both under a 10× loupe, reassemble and run 20 shots.",
+      action: "Take out the needle, clean the seat and the needle tip with the solvent named on the fluid's data sheet and a soft brush, look at both under a 10× loupe, reassemble and run 20 shots.",
       fixedNext: 'finding-seat-debris',
       notFixedNext: 'seat-inspect',
     },
@@ -287,11 +286,7 @@ export const SAMPLE_GUIDE: GuideContent = {
       ...none,
       causeCode: 'coil-shorted',
       cause: 'Shorted turns in the coil keep the magnetic field up after switch-off, so the needle releases late.',
-      remedy: [
-        'Replace the coil with one of the same nominal resistance and voltage.',
-        'Measure the new coil before fitting it.',
-        'Run 50 shots and check for drips.',
-      ],
+      remedy: ['Replace the coil with one of the same nominal resistance and voltage.', 'Measure the new coil before fitting it.', 'Run 50 shots and check for drips.'],
       parts: [{ name: 'Solenoid coil, 24 V DC, 28.8 Ω', partNumber: 'BP-COIL-24', quantity: 1 }],
       typicalMinutes: 30,
     },
@@ -302,10 +297,7 @@ export const SAMPLE_GUIDE: GuideContent = {
       ...none,
       causeCode: 'spring-fatigue',
       cause: 'The closing spring has lost force, so the needle closes too slowly and fluid escapes before it seats.',
-      remedy: [
-        'Leave the new spring in the valve.',
-        "Record the valve's cycle count so the next spring change can be planned.",
-      ],
+      remedy: ['Leave the new spring in the valve.', "Record the valve's cycle count so the next spring change can be planned."],
       parts: [{ name: 'Closing spring', partNumber: 'BP-SPR-08', quantity: 1 }],
       typicalMinutes: 20,
     },
@@ -349,11 +341,7 @@ export const SAMPLE_GUIDE: GuideContent = {
       ...none,
       causeCode: 'needle-chipped',
       cause: 'A chip in the needle tip leaves a path for fluid past the seat.',
-      remedy: [
-        'Replace the needle with a new BP-NDL-C15.',
-        'Look at the seat for marks from the chip and replace it too if it is marked.',
-        'Run 50 shots and check for drips.',
-      ],
+      remedy: ['Replace the needle with a new BP-NDL-C15.', 'Look at the seat for marks from the chip and replace it too if it is marked.', 'Run 50 shots and check for drips.'],
       parts: [{ name: 'Needle, carbide tip', partNumber: 'BP-NDL-C15', quantity: 1 }],
       typicalMinutes: 40,
     },
@@ -379,8 +367,7 @@ export const SAMPLE_GUIDE: GuideContent = {
       title: 'Call the application engineer',
       ...none,
       contact: 'The senior technician or application engineer on call',
-      message:
-        "Tell them the valve still drips after close, which steps you took on this walk and the readings you got, and the valve's cycle count. Send them the walk summary.",
+      message: "Tell them the valve still drips after close, which steps you took on this walk and the readings you got, and the valve's cycle count. Send them the walk summary.",
     },
   ],
 };

@@ -102,9 +102,7 @@ function text(label: string, max: number, mode: Mode) {
 }
 
 function id(label: string) {
-  return z
-    .string({ error: typeError(label, 'text') })
-    .regex(ID_PATTERN, `${label} must be 1 to ${GUIDE_LIMITS.idLength} lower-case letters, digits or hyphens`);
+  return z.string({ error: typeError(label, 'text') }).regex(ID_PATTERN, `${label} must be 1 to ${GUIDE_LIMITS.idLength} lower-case letters, digits or hyphens`);
 }
 
 /** A reference to a step: a draft may hold '' while the author has not chosen the target yet. */
@@ -125,17 +123,15 @@ function utf8Bytes(value: unknown): number {
 }
 
 /** The editor's document: only the outer shape is checked here; the server sanitises the rest. */
-export const RichDoc = z
-  .object(
-    { type: z.literal('doc', { error: 'Body document must have type "doc"' }) },
-    { error: typeError('Body document', 'an editor document') },
-  )
-  .catchall(z.unknown());
+export const RichDoc = z.object({ type: z.literal('doc', { error: 'Body document must have type "doc"' }) }, { error: typeError('Body document', 'an editor document') }).catchall(z.unknown());
 
 export const RichBody = obj('Body', {
   doc: RichDoc,
   /** Filled by the server from doc after sanitising; never trusted from a client or a file. */
-  html: z.string({ error: typeError('Body HTML', 'text') }).max(GUIDE_LIMITS.bodyHtmlChars, 'Body HTML is too long').optional(),
+  html: z
+    .string({ error: typeError('Body HTML', 'text') })
+    .max(GUIDE_LIMITS.bodyHtmlChars, 'Body HTML is too long')
+    .optional(),
 }).refine((body) => utf8Bytes(body.doc) <= GUIDE_LIMITS.bodyBytes, {
   message: `Body is too long: at most ${GUIDE_LIMITS.bodyBytes / 1000} kB`,
   path: ['doc'],
@@ -156,7 +152,10 @@ export const QuantityKindSchema = z.enum(enumOf<QuantityKind>(QUANTITY_KINDS), {
 
 const Quantity = obj('Fixed value', {
   value: z.number({ error: typeError('Fixed value', 'a finite number') }),
-  unit: z.string({ error: typeError('Fixed value unit', 'text') }).min(1, 'Fixed value unit must not be empty').max(GUIDE_LIMITS.unitLength),
+  unit: z
+    .string({ error: typeError('Fixed value unit', 'text') })
+    .min(1, 'Fixed value unit must not be empty')
+    .max(GUIDE_LIMITS.unitLength),
 });
 
 function schemasFor(mode: Mode) {
@@ -184,7 +183,10 @@ function schemasFor(mode: Mode) {
     ),
     articleIds: list(
       'Articles',
-      z.number({ error: typeError('Article id', 'a whole number') }).int('Article id must be a whole number').positive('Article id must be positive'),
+      z
+        .number({ error: typeError('Article id', 'a whole number') })
+        .int('Article id must be a whole number')
+        .positive('Article id must be positive'),
       0,
       GUIDE_LIMITS.articlesPerStep,
       mode,
@@ -216,9 +218,13 @@ function schemasFor(mode: Mode) {
     /** The calculator input the technician's reading fills; absent when the reading is only recorded. */
     readingInput: name('Reading input').optional(),
     fixedInputs: z
-      .record(z.string().max(GUIDE_LIMITS.nameLength, 'Fixed input name is too long'), z.union([Quantity, z.string().max(GUIDE_LIMITS.nameLength)], { error: 'Fixed input must be a number with a unit, or a choice' }), {
-        error: typeError('Fixed inputs', 'an object of named values'),
-      })
+      .record(
+        z.string().max(GUIDE_LIMITS.nameLength, 'Fixed input name is too long'),
+        z.union([Quantity, z.string().max(GUIDE_LIMITS.nameLength)], { error: 'Fixed input must be a number with a unit, or a choice' }),
+        {
+          error: typeError('Fixed inputs', 'an object of named values'),
+        },
+      )
       .refine((inputs) => Object.keys(inputs).length <= GUIDE_LIMITS.fixedInputs, `Fixed inputs: at most ${GUIDE_LIMITS.fixedInputs} allowed`),
     output: name('Calculator output'),
   });
@@ -254,7 +260,10 @@ function schemasFor(mode: Mode) {
 
   const Part = obj('Part', {
     name: text('Part name', GUIDE_LIMITS.partName, mode),
-    partNumber: z.string({ error: typeError('Part number', 'text') }).max(GUIDE_LIMITS.partNumber, `Part number must be at most ${GUIDE_LIMITS.partNumber} characters`).optional(),
+    partNumber: z
+      .string({ error: typeError('Part number', 'text') })
+      .max(GUIDE_LIMITS.partNumber, `Part number must be at most ${GUIDE_LIMITS.partNumber} characters`)
+      .optional(),
     quantity: z
       .number({ error: typeError('Part quantity', 'a whole number') })
       .int('Part quantity must be a whole number')
@@ -290,8 +299,7 @@ function schemasFor(mode: Mode) {
   });
 
   const Step = z.discriminatedUnion('kind', [AskStep, MeasureStep, TryStep, FindingStep, HandoffStep], {
-    error: (issue: Issue) =>
-      issue.input === undefined ? 'Step is required' : `Step kind must be one of ${STEP_KINDS.join(', ')}`,
+    error: (issue: Issue) => (issue.input === undefined ? 'Step is required' : `Step kind must be one of ${STEP_KINDS.join(', ')}`),
   });
 
   const Content = obj('Guide content', {
@@ -351,13 +359,7 @@ const guideMetaShape = {
     .string({ error: typeError('Summary', 'text') })
     .max(GUIDE_LIMITS.summary, `Summary must be at most ${GUIDE_LIMITS.summary} characters`)
     .optional(),
-  tags: list(
-    'Tags',
-    z.string({ error: typeError('Tag', 'text') }).regex(CODE_PATTERN, 'Tag must be lower-case letters, digits or hyphens'),
-    0,
-    GUIDE_LIMITS.tags,
-    'strict',
-  ),
+  tags: list('Tags', z.string({ error: typeError('Tag', 'text') }).regex(CODE_PATTERN, 'Tag must be lower-case letters, digits or hyphens'), 0, GUIDE_LIMITS.tags, 'strict'),
 };
 export const GuideMeta = obj('Guide', guideMetaShape);
 /** The fields of GuideMeta, for schemas that carry a guide's metadata plus more. */

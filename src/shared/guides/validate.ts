@@ -4,14 +4,7 @@ import type { CalculatorDeclaration, InputDeclaration } from '../calculators/typ
 import { KIND_LABELS, UNITS, isQuantityKind, isUnitOf, kindOfUnit, kindsOfUnit, type QuantityKind } from '../units';
 import { bandProblems } from './bands';
 import { branchesOf } from './graph';
-import {
-  GUIDE_LIMITS,
-  ID_PATTERN,
-  STEP_KIND_LABELS,
-  isEndStep,
-  type DraftStep,
-  type GuideDraftContent,
-} from './schema';
+import { GUIDE_LIMITS, ID_PATTERN, STEP_KIND_LABELS, isEndStep, type DraftStep, type GuideDraftContent } from './schema';
 
 export { bandFor, bandContains, bandProblems, describeBand } from './bands';
 
@@ -95,12 +88,7 @@ export function validateGuide(content: GuideDraftContent, ctx: ValidationContext
     }
     const earlier = indexOf.get(step.id);
     if (earlier !== undefined) {
-      report.error(
-        'duplicate-id',
-        `Steps ${earlier + 1} and ${index + 1} share the id '${step.id}': every step needs its own id`,
-        step.id,
-        `steps[${index}].id`,
-      );
+      report.error('duplicate-id', `Steps ${earlier + 1} and ${index + 1} share the id '${step.id}': every step needs its own id`, step.id, `steps[${index}].id`);
     } else {
       indexOf.set(step.id, index);
     }
@@ -137,12 +125,7 @@ export function validateGuide(content: GuideDraftContent, ctx: ValidationContext
       }
       const target = indexOf.get(branch.next);
       if (target === undefined) {
-        report.error(
-          'branch-missing',
-          `In ${stepName(step)}, ${branch.label} points at step '${branch.next}', which does not exist`,
-          step.id,
-          path,
-        );
+        report.error('branch-missing', `In ${stepName(step)}, ${branch.label} points at step '${branch.next}', which does not exist`, step.id, path);
         continue;
       }
       // A duplicate step is not in the graph: its branches would be attributed to the wrong step.
@@ -160,14 +143,7 @@ export function validateGuide(content: GuideDraftContent, ctx: ValidationContext
   return { errors, warnings };
 }
 
-function checkReachability(
-  content: GuideDraftContent,
-  steps: readonly DraftStep[],
-  edges: { to: number }[][],
-  startIndex: number | undefined,
-  indexOf: Map<string, number>,
-  report: Report,
-): void {
+function checkReachability(content: GuideDraftContent, steps: readonly DraftStep[], edges: { to: number }[][], startIndex: number | undefined, indexOf: Map<string, number>, report: Report): void {
   // Without a start every step would read as unreachable, which only buries the real message.
   if (startIndex === undefined) return;
   const seen = new Uint8Array(steps.length);
@@ -183,22 +159,12 @@ function checkReachability(
   }
   steps.forEach((step, index) => {
     if (seen[index] || indexOf.get(step.id) !== index) return;
-    report.error(
-      'unreachable',
-      `${stepName(step)} cannot be reached from the start step '${content.startStepId}': link it from another step or delete it`,
-      step.id,
-      `steps[${index}]`,
-    );
+    report.error('unreachable', `${stepName(step)} cannot be reached from the start step '${content.startStepId}': link it from another step or delete it`, step.id, `steps[${index}]`);
   });
 }
 
 /** Iterative depth-first search, so a 300-step chain cannot overflow the call stack. */
-function checkCycles(
-  steps: readonly DraftStep[],
-  edges: { to: number; label: string; path: string }[][],
-  indexOf: Map<string, number>,
-  report: Report,
-): boolean {
+function checkCycles(steps: readonly DraftStep[], edges: { to: number; label: string; path: string }[][], indexOf: Map<string, number>, report: Report): boolean {
   const WHITE = 0;
   const GREY = 1;
   const BLACK = 2;
@@ -230,12 +196,7 @@ function checkCycles(
         if (reported.has(key) || reported.size >= MAX_CYCLE_REPORTS) continue;
         reported.add(key);
         const owner = steps[frame.node];
-        report.error(
-          'cycle',
-          `Steps loop back on themselves: ${[...loop, loop[0]].map((id) => `'${id}'`).join(' → ')}; ${edge.label} of step '${owner.id}' closes the loop`,
-          owner.id,
-          edge.path,
-        );
+        report.error('cycle', `Steps loop back on themselves: ${[...loop, loop[0]].map((id) => `'${id}'`).join(' → ')}; ${edge.label} of step '${owner.id}' closes the loop`, owner.id, edge.path);
       }
     }
   }
@@ -243,12 +204,7 @@ function checkCycles(
 }
 
 /** Longest path from the start, counted in steps, by dynamic programming over a topological order. */
-function checkLongestPath(
-  steps: readonly DraftStep[],
-  edges: { to: number }[][],
-  startIndex: number,
-  report: Report,
-): void {
+function checkLongestPath(steps: readonly DraftStep[], edges: { to: number }[][], startIndex: number, report: Report): void {
   const indegree = new Int32Array(steps.length);
   const reachable = new Uint8Array(steps.length);
   const queue = [startIndex];
@@ -320,13 +276,7 @@ function checkStep(step: DraftStep, at: string, report: Report, ctx: StepContext
   uniqueIds(step.cautions, 'caution', 'cautions');
   step.cautions.forEach((caution, index) => {
     text(caution.text, `caution ${index + 1}'s text (what the danger is)`, GUIDE_LIMITS.text, `cautions[${index}].text`);
-    text(
-      caution.action,
-      `caution ${index + 1}'s action (what to do before going on)`,
-      GUIDE_LIMITS.text,
-      `cautions[${index}].action`,
-      'caution-action-missing',
-    );
+    text(caution.action, `caution ${index + 1}'s action (what to do before going on)`, GUIDE_LIMITS.text, `cautions[${index}].action`, 'caution-action-missing');
   });
   count(step.photoIds.length, 'photos', GUIDE_LIMITS.photosPerStep, 'photoIds');
   count(step.articleIds.length, 'linked articles', GUIDE_LIMITS.articlesPerStep, 'articleIds');
@@ -390,12 +340,7 @@ function inputKinds(input: InputDeclaration): QuantityKind[] | undefined {
   return [...kinds, ...(input.otherKinds ?? [])];
 }
 
-function checkMeasure(
-  step: Extract<DraftStep, { kind: 'measure' }>,
-  at: string,
-  report: Report,
-  calculators: readonly CalculatorDeclaration[] | undefined,
-): void {
+function checkMeasure(step: Extract<DraftStep, { kind: 'measure' }>, at: string, report: Report, calculators: readonly CalculatorDeclaration[] | undefined): void {
   const name = stepName(step);
   const err = (code: string, message: string, path: string) => report.error(code, `${name}: ${message}`, step.id, `${at}.${path}`);
   const { reading } = step;

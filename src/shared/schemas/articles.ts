@@ -4,9 +4,7 @@ import { z } from 'zod';
 export const ARTICLE_WORKFLOWS = ['draft', 'in_review', 'published', 'archived'] as const;
 export type ArticleWorkflow = (typeof ARTICLE_WORKFLOWS)[number];
 
-export const TipTapDoc = z
-  .object({ type: z.literal('doc', { error: 'Body must be an editor document' }), content: z.array(z.unknown()).optional() }, { error: 'Body is required' })
-  .loose();
+export const TipTapDoc = z.object({ type: z.literal('doc', { error: 'Body must be an editor document' }), content: z.array(z.unknown()).optional() }, { error: 'Body is required' }).loose();
 
 export function slugify(title: string): string {
   return title

@@ -66,14 +66,26 @@ export const ASSET_LIMITS = {
 const MAX_ID = 2_147_483_647;
 
 const id = (label: string) =>
-  z.coerce.number({ error: `${label} must be a number` }).int(`${label} must be a whole number`).positive(`${label} must be positive`).max(MAX_ID, `${label} is too large`);
+  z.coerce
+    .number({ error: `${label} must be a number` })
+    .int(`${label} must be a whole number`)
+    .positive(`${label} must be positive`)
+    .max(MAX_ID, `${label} is too large`);
 
 const bodyId = (label: string) =>
-  z.number({ error: `${label} is required` }).int(`${label} must be a whole number`).positive(`${label} must be positive`).max(MAX_ID, `${label} is too large`);
+  z
+    .number({ error: `${label} is required` })
+    .int(`${label} must be a whole number`)
+    .positive(`${label} must be positive`)
+    .max(MAX_ID, `${label} is too large`);
 
 /** Required text, trimmed. */
 const name = (label: string, max: number = ASSET_LIMITS.name) =>
-  z.string({ error: `${label} is required` }).trim().min(1, `${label} is required`).max(max, `${label} must be at most ${max} characters`);
+  z
+    .string({ error: `${label} is required` })
+    .trim()
+    .min(1, `${label} is required`)
+    .max(max, `${label} must be at most ${max} characters`);
 
 /** Optional text: blank becomes null. */
 const optText = (label: string, max: number = ASSET_LIMITS.text) =>
@@ -305,7 +317,9 @@ export const ServiceEventInput = z
       .max(ASSET_LIMITS.photos, `At most ${ASSET_LIMITS.photos} photos`)
       .default([])
       .transform((ids) => [...new Set(ids.map((x) => x.toLowerCase()))]),
-    walkId: bodyId('Walk').nullish().transform((v) => v ?? null),
+    walkId: bodyId('Walk')
+      .nullish()
+      .transform((v) => v ?? null),
   })
   .superRefine((e, ctx) => {
     if (e.actions.includes('other') && !e.otherAction) ctx.addIssue({ code: 'custom', path: ['otherAction'], message: 'Say what else was done' });
@@ -339,17 +353,8 @@ const col = (key: string, header: string, help: string, required = false): CsvCo
 
 export const CSV_COLUMNS: Record<ImportKind, CsvColumn[]> = {
   sites: [col('name', 'Site', 'Site name, unique in your organisation', true), col('address', 'Address or area', 'Optional'), col('contact', 'Contact', 'Optional')],
-  lines: [
-    col('site', 'Site', 'A site that already exists', true),
-    col('name', 'Line', 'Line name, unique on its site', true),
-    col('area', 'Area', 'Optional'),
-    col('contact', 'Contact', 'Optional'),
-  ],
-  fields: [
-    col('name', 'Field', 'Name of your own applicator field', true),
-    col('type', 'Type', 'text, number, date or yes-no', true),
-    col('unit', 'Unit', 'Number fields only, e.g. ohm'),
-  ],
+  lines: [col('site', 'Site', 'A site that already exists', true), col('name', 'Line', 'Line name, unique on its site', true), col('area', 'Area', 'Optional'), col('contact', 'Contact', 'Optional')],
+  fields: [col('name', 'Field', 'Name of your own applicator field', true), col('type', 'Type', 'text, number, date or yes-no', true), col('unit', 'Unit', 'Number fields only, e.g. ohm')],
   applicators: [
     col('site', 'Site', 'A site that already exists', true),
     col('line', 'Line', 'A line on that site', true),

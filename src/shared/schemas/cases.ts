@@ -72,7 +72,7 @@ const optionalEmail = z
   .transform((v) => (v ? v : null))
   .pipe(Email.nullable());
 
-const phone = optionalText('Phone', CASE_LIMITS.phone).refine((v) => v === null || /^[+()\d\s./-]{3,}$/.test(v) && /\d{3}/.test(v.replace(/\D/g, '')), {
+const phone = optionalText('Phone', CASE_LIMITS.phone).refine((v) => v === null || (/^[+()\d\s./-]{3,}$/.test(v) && /\d{3}/.test(v.replace(/\D/g, ''))), {
   message: 'Phone must be digits, spaces and + ( ) - . / only',
 });
 
@@ -86,14 +86,14 @@ const caseFields = {
   site: optionalText('Site', CASE_LIMITS.place),
   line: optionalText('Line', CASE_LIMITS.place),
   applicator: optionalText('Valve', CASE_LIMITS.place),
-  applicatorId: idOf('Applicator id').nullish().transform((v) => v ?? null),
-  symptom: z
-    .string({ error: 'Say what the caller sees' })
-    .trim()
-    .min(1, 'Say what the caller sees')
-    .max(CASE_LIMITS.symptom, `What they see must be at most ${CASE_LIMITS.symptom} characters`),
+  applicatorId: idOf('Applicator id')
+    .nullish()
+    .transform((v) => v ?? null),
+  symptom: z.string({ error: 'Say what the caller sees' }).trim().min(1, 'Say what the caller sees').max(CASE_LIMITS.symptom, `What they see must be at most ${CASE_LIMITS.symptom} characters`),
   priority: z.enum(CASE_PRIORITIES, { error: `Priority must be one of ${CASE_PRIORITIES.join(', ')}` }).default('normal'),
-  assigneeId: idOf('Assignee id').nullish().transform((v) => v ?? null),
+  assigneeId: idOf('Assignee id')
+    .nullish()
+    .transform((v) => v ?? null),
 };
 
 /** A case needs someone to call back and a place; either may come from a registered valve. */
@@ -179,19 +179,19 @@ export const CaseWalkInput = z.object({ walkId: idOf('Walk id') });
 
 export const CaseHandoffInput = z.object({
   assigneeId: idOf('Person to hand off to'),
-  walkId: idOf('Walk id').nullish().transform((v) => v ?? null),
-  note: z
-    .string({ error: 'Say what the person should know' })
-    .trim()
-    .min(1, 'Say what the person should know')
-    .max(CASE_LIMITS.note, `Note must be at most ${CASE_LIMITS.note} characters`),
+  walkId: idOf('Walk id')
+    .nullish()
+    .transform((v) => v ?? null),
+  note: z.string({ error: 'Say what the person should know' }).trim().min(1, 'Say what the person should know').max(CASE_LIMITS.note, `Note must be at most ${CASE_LIMITS.note} characters`),
 });
 export type CaseHandoffInput = z.output<typeof CaseHandoffInput>;
 
 export const CaseSummaryQuery = z.object({ walkId: idOf('Walk id').optional() });
 
 export const CaseSummaryInput = z.object({
-  walkId: idOf('Walk id').nullish().transform((v) => v ?? null),
+  walkId: idOf('Walk id')
+    .nullish()
+    .transform((v) => v ?? null),
   /** Defaults to the caller's e-mail on the case. */
   to: optionalEmail,
   note: optionalText('Message', CASE_LIMITS.note),

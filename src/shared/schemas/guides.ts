@@ -76,10 +76,7 @@ export const GuideVersionParam = GuideIdParam.extend({
 });
 
 /** A version by number, or the guide's published version, or its current draft. */
-export const VersionRef = z.union(
-  [z.enum(['published', 'draft']), z.coerce.number().int().positive().max(2_147_483_647)],
-  { error: 'Version must be "published", "draft" or a version number' },
-);
+export const VersionRef = z.union([z.enum(['published', 'draft']), z.coerce.number().int().positive().max(2_147_483_647)], { error: 'Version must be "published", "draft" or a version number' });
 export type VersionRef = z.output<typeof VersionRef>;
 
 export const GuideCompareQuery = z.object({ from: VersionRef.default('published'), to: VersionRef.default('draft') });
@@ -88,17 +85,10 @@ export const GuideExportQuery = z.object({ version: VersionRef.optional() });
 export const CauseInput = z.object({
   code: z.string({ error: 'Cause code is required' }).trim().regex(CODE_PATTERN, 'Cause code must be 1 to 60 lower-case letters, digits or hyphens'),
   label: z.string({ error: 'Cause label is required' }).trim().min(1, 'Cause label is required').max(GUIDE_LIMITS.label, `Cause label must be at most ${GUIDE_LIMITS.label} characters`),
-  component: z
-    .string({ error: 'Component must be a tag slug' })
-    .trim()
-    .regex(CODE_PATTERN, 'Component must be a tag slug (lower-case letters, digits or hyphens)')
-    .nullish(),
+  component: z.string({ error: 'Component must be a tag slug' }).trim().regex(CODE_PATTERN, 'Component must be a tag slug (lower-case letters, digits or hyphens)').nullish(),
 });
 export const CauseListInput = z.object({
-  causes: z
-    .array(CauseInput, { error: 'Causes must be a list' })
-    .min(1, 'Keep at least one cause')
-    .max(GUIDE_LIMITS.causes, `At most ${GUIDE_LIMITS.causes} causes`),
+  causes: z.array(CauseInput, { error: 'Causes must be a list' }).min(1, 'Keep at least one cause').max(GUIDE_LIMITS.causes, `At most ${GUIDE_LIMITS.causes} causes`),
 });
 export type CauseListInput = z.output<typeof CauseListInput>;
 export const CauseListQuery = z.object({ includeInactive: z.enum(['1', '0']).optional() });

@@ -8,7 +8,11 @@ const MAX_ID = 2_147_483_647;
 const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
 
 const id = (label: string) =>
-  z.coerce.number({ error: `${label} must be a number` }).int(`${label} must be a whole number`).positive(`${label} must be positive`).max(MAX_ID, `${label} is too large`);
+  z.coerce
+    .number({ error: `${label} must be a number` })
+    .int(`${label} must be a whole number`)
+    .positive(`${label} must be positive`)
+    .max(MAX_ID, `${label} is too large`);
 
 const date = (label: string) =>
   z
@@ -32,7 +36,12 @@ export const CausesQuery = z
     actuation: z.enum(INSIGHT_ACTUATIONS, { error: 'Actuation must be electric or air-operated' }).optional(),
     fluidFamily: z.string({ error: 'Fluid family must be text' }).trim().min(1, 'Fluid family must not be empty').max(60, 'Fluid family is too long').optional(),
     guideId: id('Guide id').optional(),
-    repeatDays: z.coerce.number({ error: 'Repeat window must be a number of days' }).int('Repeat window must be a whole number of days').min(1, 'Repeat window must be at least 1 day').max(3650, 'Repeat window must be at most 3650 days').default(90),
+    repeatDays: z.coerce
+      .number({ error: 'Repeat window must be a number of days' })
+      .int('Repeat window must be a whole number of days')
+      .min(1, 'Repeat window must be at least 1 day')
+      .max(3650, 'Repeat window must be at most 3650 days')
+      .default(90),
     bucket: z.enum(TREND_BUCKETS, { error: 'Trend must be by week or month' }).default('month'),
   })
   .refine((q) => !q.from || !q.to || q.from <= q.to, { path: ['to'], message: 'To must be on or after From' });

@@ -22,10 +22,7 @@ const tagFilter = (label: string) =>
   );
 
 export const SearchQuery = z.object({
-  q: z
-    .string({ error: 'Search text must be text' })
-    .max(SEARCH_MAX_CHARS, `Search text must be at most ${SEARCH_MAX_CHARS} characters`)
-    .default(''),
+  q: z.string({ error: 'Search text must be text' }).max(SEARCH_MAX_CHARS, `Search text must be at most ${SEARCH_MAX_CHARS} characters`).default(''),
   kind: z.enum(['all', ...SEARCH_KINDS], { error: 'Kind must be all, guide or article' }).default('all'),
   actuation: tagFilter('Actuation'),
   component: tagFilter('Component'),
@@ -79,10 +76,7 @@ const term = z
   .regex(/^[\p{L}\p{N}][\p{L}\p{N}' -]*$/u, 'A synonym uses letters, digits, spaces, hyphens and apostrophes');
 
 export const SynonymGroup = z.object({
-  terms: z
-    .array(term, { error: 'Terms must be a list' })
-    .min(2, 'A synonym group needs at least two words')
-    .max(12, 'A synonym group has at most 12 words'),
+  terms: z.array(term, { error: 'Terms must be a list' }).min(2, 'A synonym group needs at least two words').max(12, 'A synonym group has at most 12 words'),
 });
 
 export const SynonymsInput = z.object({

@@ -28,10 +28,7 @@ export const NOTE_WINDOW_MS = 24 * 60 * 60 * 1000;
 // PostgreSQL integer ids stop here; a larger number can only be a typo or a probe.
 const MAX_ID = 2_147_483_647;
 
-const clientKey = (label: string) =>
-  z
-    .string({ error: `${label} is required` })
-    .regex(ANSWER_ID_PATTERN, `${label} must be 8 to 64 letters, digits, hyphens or underscores`);
+const clientKey = (label: string) => z.string({ error: `${label} is required` }).regex(ANSWER_ID_PATTERN, `${label} must be 8 to 64 letters, digits, hyphens or underscores`);
 
 const stepId = z.string({ error: 'Step id is required' }).min(1, 'Step id is required').max(40, 'Step id is too long');
 
@@ -44,19 +41,11 @@ const placeText = (label: string) =>
     .transform((value) => (value ? value : null));
 
 export const WalkIdParam = z.object({
-  id: z.coerce
-    .number({ error: 'Walk id must be a number' })
-    .int('Walk id must be a whole number')
-    .positive('Walk id must be positive')
-    .max(MAX_ID, 'Walk id is too large'),
+  id: z.coerce.number({ error: 'Walk id must be a number' }).int('Walk id must be a whole number').positive('Walk id must be positive').max(MAX_ID, 'Walk id is too large'),
 });
 
 export const StartWalkInput = z.object({
-  guideId: z
-    .number({ error: 'Guide is required' })
-    .int('Guide id must be a whole number')
-    .positive('Guide id must be positive')
-    .max(MAX_ID, 'Guide id is too large'),
+  guideId: z.number({ error: 'Guide is required' }).int('Guide id must be a whole number').positive('Guide id must be positive').max(MAX_ID, 'Guide id is too large'),
   site: placeText('Site'),
   line: placeText('Line'),
   applicator: placeText('Applicator'),
@@ -86,10 +75,7 @@ export const AnswerInput = WalkAnswer;
 // Entries are checked one by one in the service, so a bad one stops the batch at its own index
 // and the good ones before it are still stored.
 export const AnswerBatchInput = z.object({
-  answers: z
-    .array(z.unknown(), { error: 'Answers must be a list' })
-    .min(1, 'Send at least one answer')
-    .max(WALK_INPUT_LIMITS.batch, `Send at most ${WALK_INPUT_LIMITS.batch} answers at a time`),
+  answers: z.array(z.unknown(), { error: 'Answers must be a list' }).min(1, 'Send at least one answer').max(WALK_INPUT_LIMITS.batch, `Send at most ${WALK_INPUT_LIMITS.batch} answers at a time`),
 });
 
 export const NoteInput = z
@@ -107,11 +93,7 @@ export const NoteInput = z
 export type NoteInput = z.output<typeof NoteInput>;
 
 export const AbandonInput = z.object({
-  reason: z
-    .string({ error: 'Reason must be text' })
-    .trim()
-    .max(WALK_INPUT_LIMITS.abandonReason, `Reason must be at most ${WALK_INPUT_LIMITS.abandonReason} characters`)
-    .optional(),
+  reason: z.string({ error: 'Reason must be text' }).trim().max(WALK_INPUT_LIMITS.abandonReason, `Reason must be at most ${WALK_INPUT_LIMITS.abandonReason} characters`).optional(),
 });
 export type AbandonInput = z.output<typeof AbandonInput>;
 

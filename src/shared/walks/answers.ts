@@ -10,9 +10,7 @@ export const FINDING_OUTCOMES = ['fixed', 'not-fixed', 'fixed-by-other'] as cons
 export type FindingOutcome = (typeof FINDING_OUTCOMES)[number];
 
 const base = {
-  id: z
-    .string({ error: 'Answer id is required' })
-    .regex(ANSWER_ID_PATTERN, 'Answer id must be 8 to 64 letters, digits, hyphens or underscores'),
+  id: z.string({ error: 'Answer id is required' }).regex(ANSWER_ID_PATTERN, 'Answer id must be 8 to 64 letters, digits, hyphens or underscores'),
   stepId: z.string({ error: 'Step id is required' }).min(1, 'Step id is required').max(40, 'Step id is too long'),
   /** When the technician answered, by the device's clock (the server keeps its own receipt time). */
   answeredAt: z.iso.datetime({ offset: true, error: 'Answer time must be an ISO date and time' }),
@@ -65,10 +63,7 @@ export const FindingOutcomeAnswer = z.strictObject({
 export const AcknowledgeEntry = z.strictObject({
   ...base,
   kind: z.literal('acknowledge'),
-  cautionIds: z
-    .array(z.string().min(1).max(40), { error: 'Cautions to acknowledge must be a list of caution ids' })
-    .min(1, 'Acknowledge at least one caution')
-    .max(10, 'Too many cautions'),
+  cautionIds: z.array(z.string().min(1).max(40), { error: 'Cautions to acknowledge must be a list of caution ids' }).min(1, 'Acknowledge at least one caution').max(10, 'Too many cautions'),
 });
 
 /** "Back": the walk returns to this step; later answers stay in the log. */
@@ -77,11 +72,9 @@ export const BackEntry = z.strictObject({
   kind: z.literal('back'),
 });
 
-export const WalkAnswer = z.discriminatedUnion(
-  'kind',
-  [ChoiceAnswer, ReadingAnswer, TryAnswer, FindingOutcomeAnswer, AcknowledgeEntry, BackEntry],
-  { error: 'Answer kind must be one of choice, reading, try, finding-outcome, acknowledge or back' },
-);
+export const WalkAnswer = z.discriminatedUnion('kind', [ChoiceAnswer, ReadingAnswer, TryAnswer, FindingOutcomeAnswer, AcknowledgeEntry, BackEntry], {
+  error: 'Answer kind must be one of choice, reading, try, finding-outcome, acknowledge or back',
+});
 
 export type ChoiceAnswer = z.infer<typeof ChoiceAnswer>;
 export type ReadingAnswer = z.infer<typeof ReadingAnswer>;

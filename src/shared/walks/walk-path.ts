@@ -23,26 +23,8 @@ import { getCalculator, runCalculator } from '../calculators';
 import { CalculatorInputError, UnknownCalculatorError } from '../calculators/types';
 import { bandFor } from '../guides/bands';
 import type { GuideContent, MeasureStep, Step } from '../guides/schema';
-import {
-  KIND_LABELS,
-  UnitError,
-  formatNumber,
-  fromSI,
-  isUnitOf,
-  kindOfUnit,
-  kindsOfUnit,
-  toSI,
-  unitLabel,
-  unitList,
-  type QuantityKind,
-} from '../units';
-import {
-  isRoutingAnswer,
-  type FindingOutcomeAnswer,
-  type ReadingAnswer,
-  type RoutingAnswer,
-  type WalkAnswer,
-} from './answers';
+import { KIND_LABELS, UnitError, formatNumber, fromSI, isUnitOf, kindOfUnit, kindsOfUnit, toSI, unitLabel, unitList, type QuantityKind } from '../units';
+import { isRoutingAnswer, type FindingOutcomeAnswer, type ReadingAnswer, type RoutingAnswer, type WalkAnswer } from './answers';
 
 export type WalkEnd = 'finding' | 'handoff' | 'fixed-by-try';
 
@@ -230,11 +212,10 @@ function routeReading(step: MeasureStep, answer: ReadingAnswer): RouteResult {
       }
       const claimedInBandUnit = fromSI(toSI(claimed.value, claimed.unit, sharedKind), step.bandUnit, sharedKind);
       if (!closeEnough(claimedInBandUnit, routedValue)) {
-        return refuse(
-          'computed-mismatch',
-          `The computed value ${shown(claimed.value, claimed.unit)} does not match the calculator's ${shown(routedValue, step.bandUnit)} for these inputs`,
-          { stepId, field: 'computed.value' },
-        );
+        return refuse('computed-mismatch', `The computed value ${shown(claimed.value, claimed.unit)} does not match the calculator's ${shown(routedValue, step.bandUnit)} for these inputs`, {
+          stepId,
+          field: 'computed.value',
+        });
       }
     }
   }
@@ -249,8 +230,7 @@ function routeReading(step: MeasureStep, answer: ReadingAnswer): RouteResult {
 /** Where an answer leads from a step, or why the answer does not fit the step. */
 export function nextStepFor(step: Step, answer: RoutingAnswer): RouteResult {
   const stepId = step.id;
-  const mismatch = () =>
-    refuse('answer-kind', `Step '${step.id}' takes ${ANSWER_FOR[step.kind]}, not a '${answer.kind}' answer`, { stepId });
+  const mismatch = () => refuse('answer-kind', `Step '${step.id}' takes ${ANSWER_FOR[step.kind]}, not a '${answer.kind}' answer`, { stepId });
   switch (answer.kind) {
     case 'choice': {
       if (step.kind !== 'ask') return mismatch();
@@ -383,9 +363,7 @@ export function replayPath(content: GuideContent, answers: readonly WalkAnswer[]
   return state;
 }
 
-export type CanAnswerResult =
-  | { ok: true; duplicate: boolean; route?: Route; state: WalkState }
-  | ({ ok: false } & WalkProblem);
+export type CanAnswerResult = { ok: true; duplicate: boolean; route?: Route; state: WalkState } | ({ ok: false } & WalkProblem);
 
 export interface CanAnswerOptions {
   /** The organisation's cause codes, for a 'fixed by something else' outcome. */
@@ -414,12 +392,7 @@ function stableJson(value: unknown): string {
  * is accepted as a duplicate, which the server must not store again; the same id with a different
  * answer is refused. On success `state` is the walk after the entry.
  */
-export function canAnswer(
-  content: GuideContent,
-  answers: readonly WalkAnswer[],
-  newAnswer: WalkAnswer,
-  options: CanAnswerOptions = {},
-): CanAnswerResult {
+export function canAnswer(content: GuideContent, answers: readonly WalkAnswer[], newAnswer: WalkAnswer, options: CanAnswerOptions = {}): CanAnswerResult {
   const stored = answers.find((answer) => answer.id === newAnswer.id);
   if (stored) {
     if (!sameEntry(stored, newAnswer)) {
@@ -465,11 +438,7 @@ export function canAnswer(
     return refuse('walk-ended', `The walk has ended at step '${stepId}'; go back to change an answer`, { stepId, field: 'stepId' });
   }
   if (state.unacknowledged.length > 0) {
-    return refuse(
-      'cautions-unacknowledged',
-      `Acknowledge the cautions of step '${stepId}' before answering: ${state.unacknowledged.map((id) => `'${id}'`).join(', ')}`,
-      { stepId },
-    );
+    return refuse('cautions-unacknowledged', `Acknowledge the cautions of step '${stepId}' before answering: ${state.unacknowledged.map((id) => `'${id}'`).join(', ')}`, { stepId });
   }
   if (newAnswer.kind === 'finding-outcome' && newAnswer.causeCode && options.causeCodes && !options.causeCodes.includes(newAnswer.causeCode)) {
     return refuse('cause-unknown', `Cause code '${newAnswer.causeCode}' is not in the organisation's list of causes`, { stepId, field: 'causeCode' });

@@ -18,7 +18,13 @@ export interface HandoffMailInput {
 }
 
 export function handoffMail(p: HandoffMailInput): MailContent {
-  const facts = [`Caller: ${p.caller}`, ...(p.callerContact ? [`Contact: ${p.callerContact}`] : []), ...(p.place ? [`Where: ${p.place}`] : []), `What they see: ${p.symptom}`, `Priority: ${p.priority}`];
+  const facts = [
+    `Caller: ${p.caller}`,
+    ...(p.callerContact ? [`Contact: ${p.callerContact}`] : []),
+    ...(p.place ? [`Where: ${p.place}`] : []),
+    `What they see: ${p.symptom}`,
+    `Priority: ${p.priority}`,
+  ];
   const blocks: Block[] = [
     { kind: 'p', text: `Hello ${p.assigneeName},` },
     { kind: 'p', text: `${p.fromName} on the support desk handed case ${p.caseId} to you.` },

@@ -3,7 +3,15 @@
 import { render, type Block, type MailContent } from './layout';
 
 export type SummaryResult =
-  | { kind: 'finding'; title: string; cause: string; remedy: string[]; parts: { name: string; partNumber: string | null; quantity: number }[]; outcome: 'fixed' | 'not-fixed' | 'fixed-by-other' | null; outcomeNote: string | null }
+  | {
+      kind: 'finding';
+      title: string;
+      cause: string;
+      remedy: string[];
+      parts: { name: string; partNumber: string | null; quantity: number }[];
+      outcome: 'fixed' | 'not-fixed' | 'fixed-by-other' | null;
+      outcomeNote: string | null;
+    }
   | { kind: 'fixed-by-try'; title: string }
   | { kind: 'handoff'; followUp: string | null }
   | { kind: 'open' }
@@ -31,7 +39,10 @@ export const GENERAL_CAUTION = "Your site's rules, lockout procedure and the val
 function resultBlocks(r: SummaryResult): Block[] {
   switch (r.kind) {
     case 'finding': {
-      const blocks: Block[] = [{ kind: 'heading', text: 'What we found' }, { kind: 'p', text: `${r.title}. ${r.cause}` }];
+      const blocks: Block[] = [
+        { kind: 'heading', text: 'What we found' },
+        { kind: 'p', text: `${r.title}. ${r.cause}` },
+      ];
       if (r.outcome === 'fixed') blocks.push({ kind: 'p', text: 'You told us this fixed it.' });
       if (r.outcome === 'not-fixed') blocks.push({ kind: 'p', text: 'You told us this did not fix it yet; we will stay on it with you.' });
       if (r.outcome === 'fixed-by-other') blocks.push({ kind: 'p', text: `You told us something else fixed it${r.outcomeNote ? `: ${r.outcomeNote}` : '.'}` });
@@ -42,13 +53,25 @@ function resultBlocks(r: SummaryResult): Block[] {
       return blocks;
     }
     case 'fixed-by-try':
-      return [{ kind: 'heading', text: 'What fixed it' }, { kind: 'p', text: `${r.title}: you told us this fixed it.` }];
+      return [
+        { kind: 'heading', text: 'What fixed it' },
+        { kind: 'p', text: `${r.title}: you told us this fixed it.` },
+      ];
     case 'handoff':
-      return [{ kind: 'heading', text: 'What happens next' }, { kind: 'p', text: `The checks did not settle it on the call, so we passed your case to ${r.followUp ?? 'a senior technician'}, who will contact you.` }];
+      return [
+        { kind: 'heading', text: 'What happens next' },
+        { kind: 'p', text: `The checks did not settle it on the call, so we passed your case to ${r.followUp ?? 'a senior technician'}, who will contact you.` },
+      ];
     case 'open':
-      return [{ kind: 'heading', text: 'What happens next' }, { kind: 'p', text: 'We have not finished the checks yet; we will contact you to go on.' }];
+      return [
+        { kind: 'heading', text: 'What happens next' },
+        { kind: 'p', text: 'We have not finished the checks yet; we will contact you to go on.' },
+      ];
     case 'abandoned':
-      return [{ kind: 'heading', text: 'What happens next' }, { kind: 'p', text: 'We stopped the checks before the end; we will contact you to go on.' }];
+      return [
+        { kind: 'heading', text: 'What happens next' },
+        { kind: 'p', text: 'We stopped the checks before the end; we will contact you to go on.' },
+      ];
   }
 }
 

@@ -54,7 +54,8 @@ export function insightsDigestMail(p: DigestMailInput): MailContent {
     { kind: 'heading', text: `Due in 8 to 30 days (${p.dueIn30.length})` },
     p.dueIn30.length ? { kind: 'list', items: p.dueIn30.map(serviceLine) } : { kind: 'p', text: 'Nothing else is due in the next 30 days.' },
   ];
-  if (p.moreServices > 0) blocks.push({ kind: 'small', text: `${p.moreServices} more services are due in the next 30 days; the full list, the parts to order and a calendar are on the forecast page.` });
+  if (p.moreServices > 0)
+    blocks.push({ kind: 'small', text: `${p.moreServices} more services are due in the next 30 days; the full list, the parts to order and a calendar are on the forecast page.` });
   blocks.push({ kind: 'button', label: 'Open the service forecast', href: p.forecastLink });
   blocks.push({ kind: 'heading', text: 'Repeat failures, last 30 days' });
   blocks.push(

@@ -9,7 +9,10 @@ export function invitationMail(p: { organisationName: string; name: string; emai
     preheader: 'Set your password to start using Beadpath.',
     blocks: [
       { kind: 'p', text: `Hello ${p.name},` },
-      { kind: 'p', text: `${who} made a Beadpath account for you at ${p.organisationName}${p.roles.length ? ` (${p.roles.join(', ')})` : ''}. Beadpath holds the organisation's troubleshooting guides, calculators and service records for dispensing valves.` },
+      {
+        kind: 'p',
+        text: `${who} made a Beadpath account for you at ${p.organisationName}${p.roles.length ? ` (${p.roles.join(', ')})` : ''}. Beadpath holds the organisation's troubleshooting guides, calculators and service records for dispensing valves.`,
+      },
       { kind: 'button', label: 'Set my password', href: p.link },
       { kind: 'small', text: `The link works once, for ${p.days} days. You will sign in with ${p.email}. If you did not expect this message, ignore it and nothing happens.` },
     ],

@@ -59,7 +59,9 @@ export function useSaveCauses() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (causes: AdminCause[]) =>
-      api<{ causes: AdminCause[] }>('/api/causes', { method: 'PUT', body: { causes: causes.filter((c) => c.active).map(({ code, label, component }) => ({ code, label, component })) } }).then((r) => r.causes),
+      api<{ causes: AdminCause[] }>('/api/causes', { method: 'PUT', body: { causes: causes.filter((c) => c.active).map(({ code, label, component }) => ({ code, label, component })) } }).then(
+        (r) => r.causes,
+      ),
     onSuccess: (c) => {
       qc.setQueryData(['causes', 'all'], c);
       qc.invalidateQueries({ queryKey: ['causes'] });

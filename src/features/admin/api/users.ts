@@ -32,8 +32,7 @@ export function useUsers() {
 export function useInviteUser() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (input: { name: string; email: string; roles: Role[] }) =>
-      api<{ user: AdminUser; inviteToken: string }>('/api/admin/users', { method: 'POST', body: input }),
+    mutationFn: (input: { name: string; email: string; roles: Role[] }) => api<{ user: AdminUser; inviteToken: string }>('/api/admin/users', { method: 'POST', body: input }),
     onSuccess: () => qc.invalidateQueries({ queryKey: userKeys.all }),
     meta: { inlineErrors: true },
   });
@@ -42,8 +41,7 @@ export function useInviteUser() {
 export function useUpdateUser() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: ({ id, ...patch }: { id: number; roles?: Role[]; active?: boolean; name?: string }) =>
-      api<{ user: AdminUser }>(`/api/admin/users/${id}`, { method: 'PATCH', body: patch }),
+    mutationFn: ({ id, ...patch }: { id: number; roles?: Role[]; active?: boolean; name?: string }) => api<{ user: AdminUser }>(`/api/admin/users/${id}`, { method: 'PATCH', body: patch }),
     onSettled: () => qc.invalidateQueries({ queryKey: userKeys.all }),
   });
 }

@@ -39,7 +39,9 @@ export function AuditPage() {
           <SelectField label="What" value={filters.entityKind ?? ''} onChange={(e) => set({ entityKind: e.target.value || undefined })}>
             <option value="">Everything</option>
             {KINDS.map((k) => (
-              <option key={k} value={k}>{k}</option>
+              <option key={k} value={k}>
+                {k}
+              </option>
             ))}
           </SelectField>
           <TextField label="Action (e.g. guide.retire)" value={filters.action ?? ''} onChange={(e) => set({ action: e.target.value.trim() || undefined })} />
@@ -50,7 +52,9 @@ export function AuditPage() {
       {log.isPending ? (
         <ListSkeleton label="Loading the audit log" rows={8} />
       ) : log.isError ? (
-        <Notice tone="error" title="The audit log could not be loaded">{errorMessage(log.error)}</Notice>
+        <Notice tone="error" title="The audit log could not be loaded">
+          {errorMessage(log.error)}
+        </Notice>
       ) : log.data.events.length === 0 ? (
         <EmptyState title="Nothing recorded for these filters">
           Widen the dates or clear a filter. Sign-ins, changes to people, guides, articles, applicators and settings, and exports are all recorded here.
@@ -74,18 +78,33 @@ export function AuditPage() {
                   <td className="p-2 text-sm">{e.userName ?? e.userEmail ?? 'Someone since removed'}</td>
                   <td className="p-2 text-sm">
                     <code>{e.action}</code>
-                    {e.entityId ? <span className="text-ink-soft"> · {e.entityKind} {e.entityId}</span> : null}
+                    {e.entityId ? (
+                      <span className="text-ink-soft">
+                        {' '}
+                        · {e.entityKind} {e.entityId}
+                      </span>
+                    ) : null}
                   </td>
-                  <td className="p-2"><Summary value={e.before} /></td>
-                  <td className="p-2"><Summary value={e.after} /></td>
+                  <td className="p-2">
+                    <Summary value={e.before} />
+                  </td>
+                  <td className="p-2">
+                    <Summary value={e.after} />
+                  </td>
                 </tr>
               ))}
             </tbody>
           </table>
           <div className="mt-3 flex items-center justify-between gap-2">
-            <Button variant="secondary" disabled={filters.page <= 1} onClick={() => set({ page: filters.page - 1 })}>Newer</Button>
-            <span className="text-sm text-ink-soft">Page {filters.page} of {pages} · {log.data.total} events</span>
-            <Button variant="secondary" disabled={filters.page >= pages} onClick={() => set({ page: filters.page + 1 })}>Older</Button>
+            <Button variant="secondary" disabled={filters.page <= 1} onClick={() => set({ page: filters.page - 1 })}>
+              Newer
+            </Button>
+            <span className="text-sm text-ink-soft">
+              Page {filters.page} of {pages} · {log.data.total} events
+            </span>
+            <Button variant="secondary" disabled={filters.page >= pages} onClick={() => set({ page: filters.page + 1 })}>
+              Older
+            </Button>
           </div>
         </Card>
       )}

@@ -30,7 +30,12 @@ function CauseEditor() {
           <li key={c.code} className="flex flex-wrap items-center gap-2">
             <label className="flex min-h-11 flex-1 items-center gap-2">
               <input type="checkbox" className="size-4" checked={c.active} onChange={() => setList(list.map((x, k) => (k === i ? { ...x, active: !x.active } : x)))} />
-              <input aria-label={`Cause ${c.code}`} className="min-h-11 flex-1 rounded-md border border-rule-strong bg-paper-raised px-2" value={c.label} onChange={(e) => setList(list.map((x, k) => (k === i ? { ...x, label: e.target.value } : x)))} />
+              <input
+                aria-label={`Cause ${c.code}`}
+                className="min-h-11 flex-1 rounded-md border border-rule-strong bg-paper-raised px-2"
+                value={c.label}
+                onChange={(e) => setList(list.map((x, k) => (k === i ? { ...x, label: e.target.value } : x)))}
+              />
             </label>
             <code className="text-xs text-ink-soft">{c.code}</code>
           </li>
@@ -48,9 +53,22 @@ function CauseEditor() {
         }}
       >
         <TextField label="New cause" className="flex-1" value={label} onChange={(e) => setLabel(e.target.value)} />
-        <Button type="submit" variant="secondary" className="self-end">Add</Button>
+        <Button type="submit" variant="secondary" className="self-end">
+          Add
+        </Button>
       </form>
-      <Button className="mt-4" busy={save.isPending} onClick={() => save.mutate(list, { onSuccess: (c) => { setList(c); showToast('Causes saved', 'ok'); } })}>
+      <Button
+        className="mt-4"
+        busy={save.isPending}
+        onClick={() =>
+          save.mutate(list, {
+            onSuccess: (c) => {
+              setList(c);
+              showToast('Causes saved', 'ok');
+            },
+          })
+        }
+      >
         Save causes
       </Button>
     </Card>
@@ -80,7 +98,9 @@ function TagEditor() {
                 .filter((t) => t.group === g)
                 .map((t) => (
                   <li key={t.slug}>
-                    <label className={`flex min-h-11 items-center gap-2 rounded-full border px-3 ${t.active ? 'border-rule-strong bg-paper-raised' : 'border-dashed border-rule text-ink-faint line-through'}`}>
+                    <label
+                      className={`flex min-h-11 items-center gap-2 rounded-full border px-3 ${t.active ? 'border-rule-strong bg-paper-raised' : 'border-dashed border-rule text-ink-faint line-through'}`}
+                    >
                       <input type="checkbox" className="size-4" checked={t.active} onChange={() => setList(list.map((x) => (x.slug === t.slug ? { ...x, active: !x.active } : x)))} />
                       {t.label}
                     </label>
@@ -100,12 +120,25 @@ function TagEditor() {
               }}
             >
               <TextField label={`New ${TAG_GROUP_LABELS[g].toLowerCase()} tag`} className="flex-1" value={adding[g]} onChange={(e) => setAdding({ ...adding, [g]: e.target.value })} />
-              <Button type="submit" variant="secondary" className="self-end">Add</Button>
+              <Button type="submit" variant="secondary" className="self-end">
+                Add
+              </Button>
             </form>
           </fieldset>
         ))}
       </div>
-      <Button className="mt-4" busy={save.isPending} onClick={() => save.mutate(list, { onSuccess: (t) => { setList(t); showToast('Tags saved', 'ok'); } })}>
+      <Button
+        className="mt-4"
+        busy={save.isPending}
+        onClick={() =>
+          save.mutate(list, {
+            onSuccess: (t) => {
+              setList(t);
+              showToast('Tags saved', 'ok');
+            },
+          })
+        }
+      >
         Save tags
       </Button>
     </Card>
@@ -163,7 +196,10 @@ function IntervalsCard({ settings }: { settings: OrgSettings }) {
     <Card>
       <h2 className="text-lg font-semibold">Default service intervals</h2>
       <p className="mt-1 text-ink-soft">
-        Used for forecasts and for the reliability comparison where an applicator has no interval of its own. {settings.serviceIntervalsAreDefault ? 'These are the common-practice values; check them against the valve maker’s manual for your valves and fluids.' : 'Your organisation has set its own values.'}
+        Used for forecasts and for the reliability comparison where an applicator has no interval of its own.{' '}
+        {settings.serviceIntervalsAreDefault
+          ? 'These are the common-practice values; check them against the valve maker’s manual for your valves and fluids.'
+          : 'Your organisation has set its own values.'}
       </p>
       <form
         className="mt-3 grid gap-3 sm:grid-cols-3"
@@ -171,7 +207,16 @@ function IntervalsCard({ settings }: { settings: OrgSettings }) {
           e.preventDefault();
           setErrors({});
           const parsed = Object.fromEntries(Object.entries(draft).map(([k, v]) => [k, Number(v.replace(/[\s,_]/g, ''))])) as unknown as ServiceIntervals;
-          save.mutate({ serviceIntervals: parsed }, { onSuccess: (s) => { reset(s.serviceIntervals); showToast('Intervals saved', 'ok'); }, onError });
+          save.mutate(
+            { serviceIntervals: parsed },
+            {
+              onSuccess: (s) => {
+                reset(s.serviceIntervals);
+                showToast('Intervals saved', 'ok');
+              },
+              onError,
+            },
+          );
         }}
       >
         {INTERVAL_FIELDS.map((f) => (
@@ -186,9 +231,25 @@ function IntervalsCard({ settings }: { settings: OrgSettings }) {
           />
         ))}
         <div className="flex flex-wrap gap-2 sm:col-span-3">
-          <Button type="submit" busy={save.isPending}>Save intervals</Button>
+          <Button type="submit" busy={save.isPending}>
+            Save intervals
+          </Button>
           {!settings.serviceIntervalsAreDefault && (
-            <Button type="button" variant="secondary" onClick={() => save.mutate({ serviceIntervals: null }, { onSuccess: (s) => { reset(s.serviceIntervals); showToast('Common-practice intervals restored', 'ok'); } })}>
+            <Button
+              type="button"
+              variant="secondary"
+              onClick={() =>
+                save.mutate(
+                  { serviceIntervals: null },
+                  {
+                    onSuccess: (s) => {
+                      reset(s.serviceIntervals);
+                      showToast('Common-practice intervals restored', 'ok');
+                    },
+                  },
+                )
+              }
+            >
               Use common practice ({COMMON_PRACTICE_INTERVALS.seatCycles / 1e6} M / {COMMON_PRACTICE_INTERVALS.needleCycles / 1e6} M / {COMMON_PRACTICE_INTERVALS.sealsCycles / 1e6} M)
             </Button>
           )}

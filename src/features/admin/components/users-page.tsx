@@ -131,7 +131,11 @@ function UserRow({ user, isSelf }: { user: AdminUser; isSelf: boolean }) {
             {editing ? 'Close' : 'Change roles'}
           </Button>
           {user.invitePending && user.active ? (
-            <Button variant="secondary" busy={reissue.isPending} onClick={() => reissue.mutate(user.id, { onSuccess: (o) => setLink({ token: o.inviteToken, emailed: Boolean((o as { emailed?: boolean }).emailed) }) })}>
+            <Button
+              variant="secondary"
+              busy={reissue.isPending}
+              onClick={() => reissue.mutate(user.id, { onSuccess: (o) => setLink({ token: o.inviteToken, emailed: Boolean((o as { emailed?: boolean }).emailed) }) })}
+            >
               New invitation link
             </Button>
           ) : null}

@@ -34,7 +34,11 @@ export function ArticleEditorPage() {
   if (article.isPending) return <LoadingBlock label="Opening the editor" />;
   if (article.isError) {
     if (article.error instanceof ApiError && article.error.status === 404) return <NotFoundPage />;
-    return <Notice tone="error" title="The article could not be opened">Reload the page to try again.</Notice>;
+    return (
+      <Notice tone="error" title="The article could not be opened">
+        Reload the page to try again.
+      </Notice>
+    );
   }
   return <Editor key={article.data.id} article={article.data} />;
 }
@@ -42,10 +46,7 @@ export function ArticleEditorPage() {
 function Editor({ article }: { article: ArticleDetail | null }) {
   const navigate = useNavigate();
   const tags = useTags();
-  const initial: DraftFields = useMemo(
-    () => (article ? fieldsFrom(article) : { title: '', summary: '', tags: [], keywords: '', body: EMPTY_DOC }),
-    [article],
-  );
+  const initial: DraftFields = useMemo(() => (article ? fieldsFrom(article) : { title: '', summary: '', tags: [], keywords: '', body: EMPTY_DOC }), [article]);
   const [backup, setBackup] = useState<Backup | null>(() => {
     const b = readBackup(article?.id ?? 'new');
     if (!b) return null;
@@ -67,7 +68,9 @@ function Editor({ article }: { article: ArticleDetail | null }) {
       <div className="mx-auto max-w-3xl">
         <Notice tone="warn" title={article.workflow === 'in_review' ? 'This article is waiting for review' : 'This article is archived'}>
           {article.workflow === 'in_review' ? 'Withdraw it from review on its page to edit it.' : 'Restore it from the archive on its page to edit it.'}{' '}
-          <Link className="underline" to={`/articles/${article.id}`}>Open the article</Link>
+          <Link className="underline" to={`/articles/${article.id}`}>
+            Open the article
+          </Link>
         </Notice>
       </div>
     );
@@ -77,7 +80,12 @@ function Editor({ article }: { article: ArticleDetail | null }) {
     <div className="mx-auto max-w-4xl">
       <div className="mb-4 flex flex-wrap items-center justify-between gap-3">
         <h1 className="text-2xl font-semibold">{article ? 'Edit article' : 'New article'}</h1>
-        <p role="status" aria-live="polite" data-save-status={draft.status} className={`text-sm font-semibold ${draft.status === 'saved' ? 'text-fixed' : draft.status === 'error' || draft.status === 'conflict' ? 'text-danger' : 'text-ink-soft'}`}>
+        <p
+          role="status"
+          aria-live="polite"
+          data-save-status={draft.status}
+          className={`text-sm font-semibold ${draft.status === 'saved' ? 'text-fixed' : draft.status === 'error' || draft.status === 'conflict' ? 'text-danger' : 'text-ink-soft'}`}
+        >
           {STATUS_WORDS[draft.status]}
           {draft.status === 'saved' && draft.lastSavedAt ? ` · ${formatTime(draft.lastSavedAt)}` : ''}
         </p>
@@ -117,13 +125,35 @@ function Editor({ article }: { article: ArticleDetail | null }) {
       ) : null}
 
       <div className="space-y-5">
-        <TextField label="Title" value={fields.title} onChange={(e) => update({ title: e.target.value })} error={draft.fieldErrors.title} placeholder="e.g. Reading a worn seat under a loupe" maxLength={160} />
-        <TextField label="Summary" value={fields.summary} onChange={(e) => update({ summary: e.target.value })} error={draft.fieldErrors.summary} hint="One or two sentences shown in lists and search." maxLength={400} />
+        <TextField
+          label="Title"
+          value={fields.title}
+          onChange={(e) => update({ title: e.target.value })}
+          error={draft.fieldErrors.title}
+          placeholder="e.g. Reading a worn seat under a loupe"
+          maxLength={160}
+        />
+        <TextField
+          label="Summary"
+          value={fields.summary}
+          onChange={(e) => update({ summary: e.target.value })}
+          error={draft.fieldErrors.summary}
+          hint="One or two sentences shown in lists and search."
+          maxLength={400}
+        />
         {tags.data ? <TagPicker legend="Tags" tags={tags.data} value={fields.tags} onChange={(t) => update({ tags: t })} /> : null}
         {draft.fieldErrors.tags ? <p className="text-sm font-semibold text-danger">{draft.fieldErrors.tags}</p> : null}
-        <TextField label="Keywords" value={fields.keywords} onChange={(e) => update({ keywords: e.target.value })} error={draft.fieldErrors.keywords} hint="Separated by commas: words people might search for." />
+        <TextField
+          label="Keywords"
+          value={fields.keywords}
+          onChange={(e) => update({ keywords: e.target.value })}
+          error={draft.fieldErrors.keywords}
+          hint="Separated by commas: words people might search for."
+        />
         <div>
-          <p className="mb-1 text-sm font-semibold" id="body-label">Text</p>
+          <p className="mb-1 text-sm font-semibold" id="body-label">
+            Text
+          </p>
           <RichTextEditor
             label="Article text"
             value={fields.body}
@@ -167,8 +197,12 @@ function Editor({ article }: { article: ArticleDetail | null }) {
               </section>
             </div>
             <div className="flex flex-wrap justify-end gap-2">
-              <Button variant="secondary" onClick={() => void draft.resolveConflict('theirs')}>Use their text</Button>
-              <Button variant="secondary" onClick={() => void draft.resolveConflict('both')}>Keep both</Button>
+              <Button variant="secondary" onClick={() => void draft.resolveConflict('theirs')}>
+                Use their text
+              </Button>
+              <Button variant="secondary" onClick={() => void draft.resolveConflict('both')}>
+                Keep both
+              </Button>
               <Button onClick={() => void draft.resolveConflict('mine')}>Save mine over theirs</Button>
             </div>
           </div>
@@ -178,8 +212,12 @@ function Editor({ article }: { article: ArticleDetail | null }) {
       <Dialog open={blocker.state === 'blocked'} title="Leave without saving?" onClose={() => blocker.reset?.()}>
         <p>Some changes have not reached the server yet. They are kept on this device and offered the next time you open this article.</p>
         <div className="mt-4 flex justify-end gap-2">
-          <Button variant="secondary" onClick={() => blocker.reset?.()}>Stay and save</Button>
-          <Button variant="danger" onClick={() => blocker.proceed?.()}>Leave</Button>
+          <Button variant="secondary" onClick={() => blocker.reset?.()}>
+            Stay and save
+          </Button>
+          <Button variant="danger" onClick={() => blocker.proceed?.()}>
+            Leave
+          </Button>
         </div>
       </Dialog>
     </div>

@@ -41,13 +41,20 @@ export function ArticleHistoryPage() {
   const comparison = useComparison(id, current.from, current.to, head > 1 && current.from !== current.to);
 
   if (article.isPending || revisions.isPending) return <LoadingBlock label="Loading the history" />;
-  if (article.isError || revisions.isError) return <Notice tone="error" title="The history could not be loaded">Reload the page to try again.</Notice>;
+  if (article.isError || revisions.isError)
+    return (
+      <Notice tone="error" title="The history could not be loaded">
+        Reload the page to try again.
+      </Notice>
+    );
   const a = article.data;
 
   return (
     <div className="mx-auto max-w-4xl">
       <nav className="mb-3 text-sm">
-        <Link to={`/articles/${id}`} className="font-semibold text-amber-deep underline">Back to the article</Link>
+        <Link to={`/articles/${id}`} className="font-semibold text-amber-deep underline">
+          Back to the article
+        </Link>
       </nav>
       <PageHeader title={`History of “${a.title}”`} lead="Every save is kept. Compare any two revisions, or bring an old one back as a new revision." />
       <div className="grid gap-6 lg:grid-cols-[20rem_1fr]">
@@ -74,9 +81,7 @@ export function ArticleHistoryPage() {
                       variant="quiet"
                       className="!min-h-9 !px-1 text-sm"
                       busy={restore.isPending}
-                      onClick={() =>
-                        restore.mutate({ number: r.number, baseVersion: a.version }, { onSuccess: (x) => showToast(`Revision ${r.number} restored as revision ${x.headRevision}`, 'ok') })
-                      }
+                      onClick={() => restore.mutate({ number: r.number, baseVersion: a.version }, { onSuccess: (x) => showToast(`Revision ${r.number} restored as revision ${x.headRevision}`, 'ok') })}
                     >
                       Restore
                     </Button>

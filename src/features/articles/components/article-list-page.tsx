@@ -71,11 +71,15 @@ export function ArticleListPage() {
       >
         <TextField label="Find in articles" className="min-w-56 flex-1" value={q} onChange={(e) => setQ(e.target.value)} type="search" placeholder="seat, O-ring, hot melt…" />
         <div>
-          <label htmlFor="tag-filter" className="mb-1 block text-sm font-semibold">Tag</label>
+          <label htmlFor="tag-filter" className="mb-1 block text-sm font-semibold">
+            Tag
+          </label>
           <select id="tag-filter" className="min-h-11 rounded-md border border-rule-strong bg-paper-raised px-3" value={tag} onChange={(e) => set('tag', e.target.value)}>
             <option value="">Any tag</option>
             {tags.data?.map((t) => (
-              <option key={t.slug} value={t.slug}>{t.label}</option>
+              <option key={t.slug} value={t.slug}>
+                {t.label}
+              </option>
             ))}
           </select>
         </div>
@@ -83,7 +87,9 @@ export function ArticleListPage() {
       {list.isPending ? (
         <ListSkeleton label="Loading articles" />
       ) : list.isError ? (
-        <Notice tone="error" title="Articles could not be loaded">Reload the page to try again.</Notice>
+        <Notice tone="error" title="Articles could not be loaded">
+          Reload the page to try again.
+        </Notice>
       ) : list.data.length === 0 ? (
         <EmptyState title={params.get('q') || tag ? 'No article matches' : 'No articles here yet'}>
           {params.get('q') || tag ? 'Try fewer words or another tag.' : isAuthor ? 'Write the first one with “New article”.' : 'Authors have not published any articles yet.'}
@@ -100,9 +106,7 @@ export function ArticleListPage() {
                     {isAuthor ? <span className={`rounded px-2 py-0.5 text-xs font-semibold ${toneClass[s.tone]}`}>{s.text}</span> : null}
                   </div>
                   {a.summary ? <p className="mt-1 text-ink-soft">{a.summary}</p> : null}
-                  {a.hazards.length ? (
-                    <p className="mt-2 text-sm font-semibold text-danger-deep">Cautions: {a.hazards.map((h) => HAZARDS[h as Hazard] ?? h).join('; ')}</p>
-                  ) : null}
+                  {a.hazards.length ? <p className="mt-2 text-sm font-semibold text-danger-deep">Cautions: {a.hazards.map((h) => HAZARDS[h as Hazard] ?? h).join('; ')}</p> : null}
                   <div className="mt-2 flex flex-wrap items-center gap-3 text-sm text-ink-soft">
                     <TagList slugs={a.tags} tags={tags.data ?? []} />
                     <span>Updated {formatDate(a.updatedAt)}</span>

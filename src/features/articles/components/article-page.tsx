@@ -92,8 +92,7 @@ function AuthorPanel({ article }: { article: ArticleDetail }) {
   const [comment, setComment] = useState('');
   const s = statusLabel(article);
   const isSubmitter = article.submittedById === me?.user.id;
-  const run = (a: Parameters<typeof action.mutate>[0]['action'], done: string, c?: string) =>
-    action.mutate({ action: a, comment: c }, { onSuccess: () => showToast(done, 'ok') });
+  const run = (a: Parameters<typeof action.mutate>[0]['action'], done: string, c?: string) => action.mutate({ action: a, comment: c }, { onSuccess: () => showToast(done, 'ok') });
   const lastChanges = article.events.find((e) => e.kind === 'changes_requested');
 
   return (
@@ -107,7 +106,9 @@ function AuthorPanel({ article }: { article: ArticleDetail }) {
       </div>
       {article.workflow === 'draft' && lastChanges && lastChanges.createdAt > (article.events.find((e) => e.kind === 'submitted')?.createdAt ?? '') ? (
         <div className="mt-3">
-          <Notice tone="warn" title={`${lastChanges.userName ?? 'A reviewer'} asked for changes`}>{lastChanges.comment}</Notice>
+          <Notice tone="warn" title={`${lastChanges.userName ?? 'A reviewer'} asked for changes`}>
+            {lastChanges.comment}
+          </Notice>
         </div>
       ) : null}
       <div className="mt-3 flex flex-wrap gap-2">
@@ -119,19 +120,29 @@ function AuthorPanel({ article }: { article: ArticleDetail }) {
         ) : null}
         {article.workflow === 'in_review' && canReview && !isSubmitter ? (
           <>
-            <Button busy={action.isPending} onClick={() => run('approve', 'Approved and published')}>Approve and publish</Button>
-            <Button variant="secondary" onClick={() => setSendBack(true)}>Send back with a comment</Button>
+            <Button busy={action.isPending} onClick={() => run('approve', 'Approved and published')}>
+              Approve and publish
+            </Button>
+            <Button variant="secondary" onClick={() => setSendBack(true)}>
+              Send back with a comment
+            </Button>
           </>
         ) : null}
         {article.workflow === 'in_review' && isSubmitter ? (
           <>
             <p className="self-center text-sm text-ink-soft">Waiting for another author to review it.</p>
-            <Button variant="secondary" busy={action.isPending} onClick={() => run('withdraw', 'Withdrawn from review')}>Withdraw to edit</Button>
+            <Button variant="secondary" busy={action.isPending} onClick={() => run('withdraw', 'Withdrawn from review')}>
+              Withdraw to edit
+            </Button>
           </>
         ) : null}
-        <ButtonLink variant="secondary" to={`/articles/${article.id}/history`}>History</ButtonLink>
+        <ButtonLink variant="secondary" to={`/articles/${article.id}/history`}>
+          History
+        </ButtonLink>
         {article.workflow === 'archived' ? (
-          <Button variant="secondary" busy={action.isPending} onClick={() => run('unarchive', 'Restored from the archive')}>Restore from archive</Button>
+          <Button variant="secondary" busy={action.isPending} onClick={() => run('unarchive', 'Restored from the archive')}>
+            Restore from archive
+          </Button>
         ) : article.workflow !== 'in_review' ? (
           <Button
             variant="quiet"
@@ -148,14 +159,27 @@ function AuthorPanel({ article }: { article: ArticleDetail }) {
           onSubmit={(e) => {
             e.preventDefault();
             if (!comment.trim()) return;
-            action.mutate({ action: 'request-changes', comment }, { onSuccess: () => { setSendBack(false); setComment(''); showToast('Sent back to the author', 'ok'); } });
+            action.mutate(
+              { action: 'request-changes', comment },
+              {
+                onSuccess: () => {
+                  setSendBack(false);
+                  setComment('');
+                  showToast('Sent back to the author', 'ok');
+                },
+              },
+            );
           }}
           className="space-y-4"
         >
           <TextField label="What should change?" value={comment} onChange={(e) => setComment(e.target.value)} autoFocus />
           <div className="flex justify-end gap-2">
-            <Button variant="secondary" onClick={() => setSendBack(false)}>Cancel</Button>
-            <Button type="submit" disabled={!comment.trim()} busy={action.isPending}>Send back</Button>
+            <Button variant="secondary" onClick={() => setSendBack(false)}>
+              Cancel
+            </Button>
+            <Button type="submit" disabled={!comment.trim()} busy={action.isPending}>
+              Send back
+            </Button>
           </div>
         </form>
       </Dialog>
@@ -171,7 +195,11 @@ export function ArticlePage() {
   if (article.isPending) return <LoadingBlock label="Loading the article" />;
   if (article.isError) {
     if (article.error instanceof ApiError && article.error.status === 404) return <NotFoundPage />;
-    return <Notice tone="error" title="The article could not be loaded">Reload the page to try again.</Notice>;
+    return (
+      <Notice tone="error" title="The article could not be loaded">
+        Reload the page to try again.
+      </Notice>
+    );
   }
   const a = article.data;
   // Authors read the working copy; everyone else the approved revision.
@@ -179,7 +207,9 @@ export function ArticlePage() {
   return (
     <article className="mx-auto max-w-3xl">
       <nav className="no-print mb-3 text-sm">
-        <Link to="/articles" className="inline-flex min-h-11 items-center font-semibold text-amber-deep underline">All articles</Link>
+        <Link to="/articles" className="inline-flex min-h-11 items-center font-semibold text-amber-deep underline">
+          All articles
+        </Link>
       </nav>
       {isAuthor ? <AuthorPanel article={a} /> : null}
       <header className="mb-5">
@@ -196,7 +226,9 @@ export function ArticlePage() {
             <span>Not reviewed yet</span>
           )}
           {a.authorName ? <span>Written by {a.authorName}</span> : null}
-          <button type="button" className="no-print min-h-11 underline" onClick={() => window.print()}>Print</button>
+          <button type="button" className="no-print min-h-11 underline" onClick={() => window.print()}>
+            Print
+          </button>
         </div>
       </header>
       <CautionSummary articleId={a.id} hazards={shown.hazards} />

@@ -44,7 +44,10 @@ function toBody(f: DraftFields) {
     title: f.title,
     summary: f.summary,
     tags: f.tags,
-    keywords: f.keywords.split(',').map((k) => k.trim()).filter(Boolean),
+    keywords: f.keywords
+      .split(',')
+      .map((k) => k.trim())
+      .filter(Boolean),
     body: f.body,
   };
 }

@@ -9,7 +9,6 @@ export function statusLabel(a: Pick<ArticleSummary, 'workflow' | 'published' | '
   return { text: a.published ? 'Published · changes in draft' : 'Draft', tone: 'muted' };
 }
 
-
 export const toneClass = {
   ok: 'bg-fixed-wash text-fixed',
   warn: 'bg-amber-wash text-amber-deep',

@@ -1,17 +1,7 @@
 // Asset endpoints: one key factory, fetchers and hooks for sites, lines, the organisation's own
 // fields, applicators with their readings and service events, and CSV imports.
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type {
-  ApplicatorDetail,
-  ApplicatorListItem,
-  FieldView,
-  ImportKind,
-  ImportMode,
-  ImportPreview,
-  ImportResult,
-  LineView,
-  SiteView,
-} from '@/shared/schemas/assets';
+import type { ApplicatorDetail, ApplicatorListItem, FieldView, ImportKind, ImportMode, ImportPreview, ImportResult, LineView, SiteView } from '@/shared/schemas/assets';
 import { api, ApiError } from '@/lib/api-client';
 
 export interface ApplicatorFilters {
@@ -107,13 +97,17 @@ export function useSaveSite() {
 
 export function useSaveLine() {
   return useAssetMutation((b: { id?: number; siteId: number; name: string; area: string; contact: string }) =>
-    api<{ line: LineView }>(b.id ? `/api/lines/${b.id}` : '/api/lines', { method: b.id ? 'PUT' : 'POST', body: { siteId: b.siteId, name: b.name, area: b.area, contact: b.contact } }).then((r) => r.line),
+    api<{ line: LineView }>(b.id ? `/api/lines/${b.id}` : '/api/lines', { method: b.id ? 'PUT' : 'POST', body: { siteId: b.siteId, name: b.name, area: b.area, contact: b.contact } }).then(
+      (r) => r.line,
+    ),
   );
 }
 
 export function useSaveField() {
   return useAssetMutation((b: { id?: number; name: string; type: string; unit: string }) =>
-    api<{ field: FieldView }>(b.id ? `/api/applicators/fields/${b.id}` : '/api/applicators/fields', { method: b.id ? 'PUT' : 'POST', body: { name: b.name, type: b.type, unit: b.unit || null } }).then((r) => r.field),
+    api<{ field: FieldView }>(b.id ? `/api/applicators/fields/${b.id}` : '/api/applicators/fields', { method: b.id ? 'PUT' : 'POST', body: { name: b.name, type: b.type, unit: b.unit || null } }).then(
+      (r) => r.field,
+    ),
   );
 }
 
@@ -168,7 +162,8 @@ async function postCsv<T>(path: string, csv: string, onProgress?: (fraction: num
 
 export function usePreviewImport() {
   return useMutation({
-    mutationFn: (v: { kind: ImportKind; csv: string; onProgress?: (fraction: number) => void }) => postCsv<{ preview: ImportPreview }>(`/api/applicators/import/${v.kind}/preview`, v.csv, v.onProgress).then((r) => r.preview),
+    mutationFn: (v: { kind: ImportKind; csv: string; onProgress?: (fraction: number) => void }) =>
+      postCsv<{ preview: ImportPreview }>(`/api/applicators/import/${v.kind}/preview`, v.csv, v.onProgress).then((r) => r.preview),
     meta: { inlineErrors: true },
   });
 }
@@ -176,7 +171,8 @@ export function usePreviewImport() {
 export function useCommitImport() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (v: { kind: ImportKind; csv: string; mode: ImportMode; onProgress?: (fraction: number) => void }) => postCsv<{ result: ImportResult }>(`/api/applicators/import/${v.kind}?mode=${v.mode}`, v.csv, v.onProgress).then((r) => r.result),
+    mutationFn: (v: { kind: ImportKind; csv: string; mode: ImportMode; onProgress?: (fraction: number) => void }) =>
+      postCsv<{ result: ImportResult }>(`/api/applicators/import/${v.kind}?mode=${v.mode}`, v.csv, v.onProgress).then((r) => r.result),
     onSuccess: () => qc.invalidateQueries({ queryKey: assetKeys.all }),
     meta: { inlineErrors: true },
   });

@@ -58,7 +58,10 @@ function toForm(a?: ApplicatorDetail): Form {
 
 /** Numbers typed with a decimal comma or spaces are read as the person meant them. */
 function readNumber(text: string): number | null | string {
-  const t = text.trim().replace(/[\s_]/g, '').replace(/^(-?\d*),(\d+)$/, '$1.$2');
+  const t = text
+    .trim()
+    .replace(/[\s_]/g, '')
+    .replace(/^(-?\d*),(\d+)$/, '$1.$2');
   if (!t) return null;
   const n = Number(t);
   return Number.isFinite(n) ? n : text;
@@ -105,7 +108,12 @@ export function ApplicatorEditPage() {
   const id = Number(useParams().id ?? 0);
   const existing = useApplicator(id);
   if (id && existing.isPending) return <LoadingBlock label="Opening the applicator" />;
-  if (id && existing.isError) return <Notice tone="error" title="This applicator could not be opened">{errorMessage(existing.error)}</Notice>;
+  if (id && existing.isError)
+    return (
+      <Notice tone="error" title="This applicator could not be opened">
+        {errorMessage(existing.error)}
+      </Notice>
+    );
   return <EditForm key={existing.data?.id ?? 'new'} current={existing.data} />;
 }
 
@@ -127,7 +135,13 @@ function EditForm({ current }: { current?: ApplicatorDetail }) {
   if (lines.data && lines.data.length === 0) {
     return (
       <EmptyState title="Add a site and a line first">
-        <p>An applicator sits on a line at a site. <Link className="font-semibold text-amber-deep underline" to="/applicators/sites">Add them here</Link>.</p>
+        <p>
+          An applicator sits on a line at a site.{' '}
+          <Link className="font-semibold text-amber-deep underline" to="/applicators/sites">
+            Add them here
+          </Link>
+          .
+        </p>
       </EmptyState>
     );
   }
@@ -162,24 +176,38 @@ function EditForm({ current }: { current?: ApplicatorDetail }) {
         <SelectField label="Line (site · line)" value={f.lineId} onChange={set('lineId')} error={err('lineId')}>
           <option value="">Choose the line</option>
           {(lines.data ?? []).map((l) => (
-            <option key={l.id} value={l.id}>{l.siteName} · {l.name}</option>
+            <option key={l.id} value={l.id}>
+              {l.siteName} · {l.name}
+            </option>
           ))}
         </SelectField>
         <TextField label="Tag (the plant’s asset number)" value={f.tag} onChange={set('tag')} error={err('tag')} autoComplete="off" />
         <SelectField label="Status" value={f.status} onChange={set('status')} error={err('status')}>
-          {APPLICATOR_STATUSES.map((s) => <option key={s} value={s}>{APPLICATOR_STATUS_LABELS[s]}</option>)}
+          {APPLICATOR_STATUSES.map((s) => (
+            <option key={s} value={s}>
+              {APPLICATOR_STATUS_LABELS[s]}
+            </option>
+          ))}
         </SelectField>
         <TextField label="Installed on" type="date" max={localToday()} value={f.installedOn} onChange={set('installedOn')} error={err('installedOn')} />
       </Section>
 
       <Section title="Valve">
         <SelectField label="Actuation" value={f.actuation} onChange={set('actuation')} error={err('actuation')}>
-          {ACTUATIONS.map((x) => <option key={x} value={x}>{ACTUATION_LABELS[x]}</option>)}
+          {ACTUATIONS.map((x) => (
+            <option key={x} value={x}>
+              {ACTUATION_LABELS[x]}
+            </option>
+          ))}
         </SelectField>
         {f.actuation === 'electric' ? (
           <SelectField label="Coil drive" value={f.coilDrive} onChange={set('coilDrive')} error={err('coilDrive')}>
             <option value="">Not known</option>
-            {COIL_DRIVES.map((x) => <option key={x} value={x}>{COIL_DRIVE_LABELS[x]}</option>)}
+            {COIL_DRIVES.map((x) => (
+              <option key={x} value={x}>
+                {COIL_DRIVE_LABELS[x]}
+              </option>
+            ))}
           </SelectField>
         ) : (
           <TextField label="Air pressure (bar)" inputMode="decimal" value={f.airPressureBar} onChange={set('airPressureBar')} error={err('airPressureBar')} />
@@ -190,7 +218,11 @@ function EditForm({ current }: { current?: ApplicatorDetail }) {
       <Section title="Needle and seat">
         <SelectField label="Needle tip" value={f.needleTip} onChange={set('needleTip')} error={err('needleTip')}>
           <option value="">Not known</option>
-          {NEEDLE_TIPS.map((x) => <option key={x} value={x}>{NEEDLE_TIP_LABELS[x]}</option>)}
+          {NEEDLE_TIPS.map((x) => (
+            <option key={x} value={x}>
+              {NEEDLE_TIP_LABELS[x]}
+            </option>
+          ))}
         </SelectField>
         <TextField label="Needle material" value={f.needleMaterial} onChange={set('needleMaterial')} error={err('needleMaterial')} placeholder="e.g. tungsten carbide" />
         <TextField label="Seat material" value={f.seatMaterial} onChange={set('seatMaterial')} error={err('seatMaterial')} placeholder="e.g. stainless steel" />
@@ -200,7 +232,11 @@ function EditForm({ current }: { current?: ApplicatorDetail }) {
       <Section title="Fluid">
         <SelectField label="Fluid family" value={f.fluidFamily} onChange={set('fluidFamily')} error={err('fluidFamily')}>
           <option value="">Not known</option>
-          {fluids.map((t) => <option key={t.slug} value={t.slug}>{t.label}</option>)}
+          {fluids.map((t) => (
+            <option key={t.slug} value={t.slug}>
+              {t.label}
+            </option>
+          ))}
         </SelectField>
         <TextField label="Fluid name" value={f.fluidName} onChange={set('fluidName')} error={err('fluidName')} />
         <TextField label="Viscosity (mPa·s)" inputMode="decimal" value={f.viscosityMPas} onChange={set('viscosityMPas')} error={err('viscosityMPas')} />
@@ -213,19 +249,54 @@ function EditForm({ current }: { current?: ApplicatorDetail }) {
         {f.heated === 'yes' ? <TextField label="Set temperature (°C)" inputMode="decimal" value={f.setTemperatureC} onChange={set('setTemperatureC')} error={err('setTemperatureC')} /> : null}
       </Section>
 
-      <Section title="Expected rate and service intervals" lead="The expected rate carries the counter forward when no recent reading exists. Leave an interval empty to use the common-practice figure shown; the valve maker’s figure is better when you have it.">
+      <Section
+        title="Expected rate and service intervals"
+        lead="The expected rate carries the counter forward when no recent reading exists. Leave an interval empty to use the common-practice figure shown; the valve maker’s figure is better when you have it."
+      >
         <TextField label="Cycles per minute" inputMode="decimal" value={f.cyclesPerMinute} onChange={set('cyclesPerMinute')} error={err('cyclesPerMinute')} />
         <TextField label="Running hours per day" inputMode="decimal" value={f.hoursPerDay} onChange={set('hoursPerDay')} error={err('hoursPerDay')} />
         <TextField label="Running days per week" inputMode="decimal" value={f.daysPerWeek} onChange={set('daysPerWeek')} error={err('daysPerWeek')} />
-        <TextField label="Seat interval (cycles)" inputMode="numeric" value={f.seatIntervalCycles} onChange={set('seatIntervalCycles')} error={err('seatIntervalCycles')} placeholder={`${formatInteger(DEFAULT_THRESHOLDS.seat)} (common practice)`} />
-        <TextField label="Needle interval (cycles)" inputMode="numeric" value={f.needleIntervalCycles} onChange={set('needleIntervalCycles')} error={err('needleIntervalCycles')} placeholder={`${formatInteger(DEFAULT_THRESHOLDS.needle)} (common practice)`} />
+        <TextField
+          label="Seat interval (cycles)"
+          inputMode="numeric"
+          value={f.seatIntervalCycles}
+          onChange={set('seatIntervalCycles')}
+          error={err('seatIntervalCycles')}
+          placeholder={`${formatInteger(DEFAULT_THRESHOLDS.seat)} (common practice)`}
+        />
+        <TextField
+          label="Needle interval (cycles)"
+          inputMode="numeric"
+          value={f.needleIntervalCycles}
+          onChange={set('needleIntervalCycles')}
+          error={err('needleIntervalCycles')}
+          placeholder={`${formatInteger(DEFAULT_THRESHOLDS.needle)} (common practice)`}
+        />
         {f.actuation === 'air-operated' ? (
-          <TextField label="Seals interval (cycles)" inputMode="numeric" value={f.sealsIntervalCycles} onChange={set('sealsIntervalCycles')} error={err('sealsIntervalCycles')} placeholder={`${formatInteger(DEFAULT_THRESHOLDS.seals)} (common practice)`} />
+          <TextField
+            label="Seals interval (cycles)"
+            inputMode="numeric"
+            value={f.sealsIntervalCycles}
+            onChange={set('sealsIntervalCycles')}
+            error={err('sealsIntervalCycles')}
+            placeholder={`${formatInteger(DEFAULT_THRESHOLDS.seals)} (common practice)`}
+          />
         ) : null}
       </Section>
 
       {ownFields.length ? (
-        <Section title="Your organisation’s fields" lead={<>Defined on <Link className="font-semibold text-amber-deep underline" to="/applicators/sites">Sites and lines</Link>.</>}>
+        <Section
+          title="Your organisation’s fields"
+          lead={
+            <>
+              Defined on{' '}
+              <Link className="font-semibold text-amber-deep underline" to="/applicators/sites">
+                Sites and lines
+              </Link>
+              .
+            </>
+          }
+        >
           {ownFields.map((field) => {
             const k = `custom.${field.id}`;
             const label = field.unit ? `${field.name} (${field.unit})` : field.name;
@@ -238,7 +309,17 @@ function EditForm({ current }: { current?: ApplicatorDetail }) {
                 </SelectField>
               );
             }
-            return <TextField key={field.id} label={label} type={field.type === 'date' ? 'date' : 'text'} inputMode={field.type === 'number' ? 'decimal' : undefined} value={f[k] ?? ''} onChange={set(k)} error={err(k)} />;
+            return (
+              <TextField
+                key={field.id}
+                label={label}
+                type={field.type === 'date' ? 'date' : 'text'}
+                inputMode={field.type === 'number' ? 'decimal' : undefined}
+                value={f[k] ?? ''}
+                onChange={set(k)}
+                error={err(k)}
+              />
+            );
           })}
         </Section>
       ) : null}
@@ -246,8 +327,12 @@ function EditForm({ current }: { current?: ApplicatorDetail }) {
       {summary ? <Notice tone="error" title={summary} /> : null}
       <div className="fixed inset-x-0 bottom-0 z-20 border-t border-rule bg-paper/95 px-4 py-2 backdrop-blur">
         <div className="mx-auto flex max-w-3xl justify-end gap-2">
-          <Button variant="secondary" onClick={() => navigate(current ? `/applicators/${current.id}` : '/applicators')}>Cancel</Button>
-          <Button type="submit" busy={save.isPending}>{current ? 'Save changes' : 'Add applicator'}</Button>
+          <Button variant="secondary" onClick={() => navigate(current ? `/applicators/${current.id}` : '/applicators')}>
+            Cancel
+          </Button>
+          <Button type="submit" busy={save.isPending}>
+            {current ? 'Save changes' : 'Add applicator'}
+          </Button>
         </div>
       </div>
     </form>

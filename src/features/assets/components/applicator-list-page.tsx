@@ -21,7 +21,11 @@ export function ExportLinks({ links }: { links: [string, string][] }) {
       <ul className="absolute right-0 z-20 mt-1 w-64 rounded-md border border-rule bg-paper-raised p-1 shadow-lg">
         {links.map(([label, href]) => (
           <li key={href}>
-            <DownloadButton href={href} fileName={href.split('/').filter(Boolean).slice(1).join('-')} className="flex min-h-11 w-full items-center rounded px-3 text-left font-semibold hover:bg-paper-sunk disabled:cursor-wait">
+            <DownloadButton
+              href={href}
+              fileName={href.split('/').filter(Boolean).slice(1).join('-')}
+              className="flex min-h-11 w-full items-center rounded px-3 text-left font-semibold hover:bg-paper-sunk disabled:cursor-wait"
+            >
               {label}
             </DownloadButton>
           </li>
@@ -43,8 +47,9 @@ export function ApplicatorListPage() {
   const lines = useLines();
   const set = (patch: Record<string, string>) => {
     const next = new URLSearchParams(params);
-    for (const [k, v] of Object.entries(patch)) if (v) next.set(k, v);
-    else next.delete(k);
+    for (const [k, v] of Object.entries(patch))
+      if (v) next.set(k, v);
+      else next.delete(k);
     setParams(next, { replace: true });
   };
   const search = (e: FormEvent) => {
@@ -62,9 +67,19 @@ export function ApplicatorListPage() {
         actions={
           <>
             {manage ? <ButtonLink to="new">Add applicator</ButtonLink> : null}
-            <ButtonLink to="sites" variant="secondary">Sites and lines</ButtonLink>
-            {manage ? <ButtonLink to="import" variant="secondary">Import CSV</ButtonLink> : null}
-            {manage ? <ButtonLink to="labels" variant="secondary">Print labels</ButtonLink> : null}
+            <ButtonLink to="sites" variant="secondary">
+              Sites and lines
+            </ButtonLink>
+            {manage ? (
+              <ButtonLink to="import" variant="secondary">
+                Import CSV
+              </ButtonLink>
+            ) : null}
+            {manage ? (
+              <ButtonLink to="labels" variant="secondary">
+                Print labels
+              </ButtonLink>
+            ) : null}
             <ExportLinks
               links={[
                 ['Applicators', '/api/applicators/export.csv'],
@@ -77,7 +92,14 @@ export function ApplicatorListPage() {
       />
 
       <form onSubmit={search} className="mb-4 grid gap-3 sm:grid-cols-2 lg:grid-cols-[2fr_1fr_1fr_1fr]" role="search">
-        <TextField label="Search tag, fluid, line or site" value={q} onChange={(e) => setQ(e.target.value)} onBlur={() => q.trim() !== filters.q && set({ q: q.trim() })} type="search" enterKeyHint="search" />
+        <TextField
+          label="Search tag, fluid, line or site"
+          value={q}
+          onChange={(e) => setQ(e.target.value)}
+          onBlur={() => q.trim() !== filters.q && set({ q: q.trim() })}
+          type="search"
+          enterKeyHint="search"
+        />
         <Button variant="quiet" className="justify-start sm:hidden" aria-expanded={filtersOpen} onClick={() => setFiltersOpen((o) => !o)}>
           {filtersOpen ? 'Hide filters' : `Filter by site, line or status${filtered ? ' (on)' : ''}`}
         </Button>
@@ -85,20 +107,26 @@ export function ApplicatorListPage() {
           <SelectField label="Site" value={filters.siteId} onChange={(e) => set({ siteId: e.target.value, lineId: '' })}>
             <option value="">All sites</option>
             {(sites.data ?? []).map((s) => (
-              <option key={s.id} value={s.id}>{s.name}</option>
+              <option key={s.id} value={s.id}>
+                {s.name}
+              </option>
             ))}
           </SelectField>
           <SelectField label="Line" value={filters.lineId} onChange={(e) => set({ lineId: e.target.value })}>
             <option value="">All lines</option>
             {siteLines.map((l) => (
-              <option key={l.id} value={l.id}>{filters.siteId ? l.name : `${l.siteName} · ${l.name}`}</option>
+              <option key={l.id} value={l.id}>
+                {filters.siteId ? l.name : `${l.siteName} · ${l.name}`}
+              </option>
             ))}
           </SelectField>
           <SelectField label="Status" value={filters.status} onChange={(e) => set({ status: e.target.value })}>
             <option value="in-use">Not retired</option>
             <option value="all">All</option>
             {APPLICATOR_STATUSES.map((s) => (
-              <option key={s} value={s}>{APPLICATOR_STATUS_LABELS[s]}</option>
+              <option key={s} value={s}>
+                {APPLICATOR_STATUS_LABELS[s]}
+              </option>
             ))}
           </SelectField>
         </div>
@@ -107,14 +135,23 @@ export function ApplicatorListPage() {
       {list.isPending ? (
         <ListSkeleton label="Loading applicators" />
       ) : list.isError ? (
-        <Notice tone="error" title="The applicators could not be loaded">{errorMessage(list.error)}</Notice>
+        <Notice tone="error" title="The applicators could not be loaded">
+          {errorMessage(list.error)}
+        </Notice>
       ) : list.data.applicators.length === 0 ? (
         noSites ? (
           <EmptyState title="No applicators registered yet">
             {manage ? (
               <p>
-                Start with a <Link className="font-semibold text-amber-deep underline" to="sites">site and a line</Link>, then add applicators one by one or{' '}
-                <Link className="font-semibold text-amber-deep underline" to="import">import them from a CSV file</Link>.
+                Start with a{' '}
+                <Link className="font-semibold text-amber-deep underline" to="sites">
+                  site and a line
+                </Link>
+                , then add applicators one by one or{' '}
+                <Link className="font-semibold text-amber-deep underline" to="import">
+                  import them from a CSV file
+                </Link>
+                .
               </p>
             ) : (
               <p>An admin or author registers the plant’s valves here. Until then, walks take the valve’s tag as typed text.</p>
@@ -145,11 +182,19 @@ export function ApplicatorListPage() {
                 <Link to={String(a.id)} className="block px-3 py-3 hover:bg-paper-sunk md:grid md:grid-cols-[9rem_minmax(0,1.4fr)_minmax(0,1fr)_11rem_9rem] md:items-center md:gap-3">
                   <span className="flex items-center gap-2">
                     <span className="text-lg font-semibold text-amber-deep underline-offset-4">{a.tag}</span>
-                    {a.status !== 'running' ? <span className="md:hidden"><StatusChip status={a.status} /></span> : null}
+                    {a.status !== 'running' ? (
+                      <span className="md:hidden">
+                        <StatusChip status={a.status} />
+                      </span>
+                    ) : null}
                   </span>
                   <span className="block text-ink">
                     {a.siteName} · {a.lineName}
-                    {a.status !== 'running' ? <span className="ml-2 hidden md:inline"><StatusChip status={a.status} /></span> : null}
+                    {a.status !== 'running' ? (
+                      <span className="ml-2 hidden md:inline">
+                        <StatusChip status={a.status} />
+                      </span>
+                    ) : null}
                   </span>
                   <span className="block text-sm text-ink-soft">
                     {ACTUATION_LABELS[a.actuation]}

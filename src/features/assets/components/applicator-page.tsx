@@ -40,7 +40,11 @@ export function ApplicatorPage() {
   if (q.isPending) return <LoadingBlock label="Opening the applicator" />;
   if (q.isError) {
     if (q.error instanceof ApiError && q.error.status === 404) return <NotFoundPage />;
-    return <Notice tone="error" title="This applicator could not be opened">{errorMessage(q.error)}</Notice>;
+    return (
+      <Notice tone="error" title="This applicator could not be opened">
+        {errorMessage(q.error)}
+      </Notice>
+    );
   }
   return <Applicator a={q.data} />;
 }
@@ -71,7 +75,11 @@ function Applicator({ a }: { a: ApplicatorDetail }) {
       </div>
       <div className="lg:grid lg:grid-cols-[minmax(0,1fr)_22rem] lg:gap-x-8">
         <div className="space-y-5">
-          {a.status === 'retired' ? <Notice tone="info" title="This applicator is retired">Its history is kept; new walks and services are usually recorded on the valve that replaced it.</Notice> : null}
+          {a.status === 'retired' ? (
+            <Notice tone="info" title="This applicator is retired">
+              Its history is kept; new walks and services are usually recorded on the valve that replaced it.
+            </Notice>
+          ) : null}
           {canWalk ? <StartWalk a={a} /> : null}
           {canRecord ? (
             <div className="grid gap-2 sm:grid-cols-2">
@@ -93,8 +101,12 @@ function Applicator({ a }: { a: ApplicatorDetail }) {
           <Specs a={a} />
           {canManage ? (
             <div className="flex flex-wrap gap-2 border-t border-rule pt-4">
-              <ButtonLink to="edit" variant="secondary">Edit specs</ButtonLink>
-              <ButtonLink to={`/applicators/labels?ids=${a.id}`} variant="secondary">Print its label</ButtonLink>
+              <ButtonLink to="edit" variant="secondary">
+                Edit specs
+              </ButtonLink>
+              <ButtonLink to={`/applicators/labels?ids=${a.id}`} variant="secondary">
+                Print its label
+              </ButtonLink>
             </div>
           ) : null}
         </div>
@@ -123,7 +135,9 @@ function StartWalk({ a }: { a: ApplicatorDetail }) {
   const shown = all ? list : likely;
   return (
     <section aria-labelledby="start-walk" className="rounded-lg border-2 border-amber-line bg-amber-wash/40 p-4">
-      <h2 id="start-walk" className="text-xl font-semibold">Start a walk: what are you seeing?</h2>
+      <h2 id="start-walk" className="text-xl font-semibold">
+        Start a walk: what are you seeing?
+      </h2>
       <p className="mb-3 text-sm text-ink-soft">Tap the symptom. The walk is recorded on {a.tag}.</p>
       {guides.isPending ? (
         <LoadingBlock label="Loading symptoms" />
@@ -174,7 +188,9 @@ function Forecasts({ a }: { a: ApplicatorDetail }) {
   const common = a.forecasts.some((f) => f.thresholdSource === 'common-practice');
   return (
     <section aria-labelledby="forecasts">
-      <h2 id="forecasts" className="mb-2 text-xl font-semibold">Next service</h2>
+      <h2 id="forecasts" className="mb-2 text-xl font-semibold">
+        Next service
+      </h2>
       <ul className={`grid gap-2 ${a.forecasts.length === 3 ? 'sm:grid-cols-3' : 'sm:grid-cols-2'}`}>
         {a.forecasts.map((f) => {
           const w = forecastWords(f);
@@ -187,9 +203,7 @@ function Forecasts({ a }: { a: ApplicatorDetail }) {
               <div className="mt-2 h-2 overflow-hidden rounded-full bg-paper-sunk" aria-hidden>
                 <div className="h-full bg-amber" style={{ width: `${share * 100}%` }} />
               </div>
-              <p className="tabular mt-1 text-sm">
-                {f.cyclesSince !== null ? `${cycles(f.cyclesSince)} of ${cycles(f.threshold)}` : `Interval ${cycles(f.threshold)}`}
-              </p>
+              <p className="tabular mt-1 text-sm">{f.cyclesSince !== null ? `${cycles(f.cyclesSince)} of ${cycles(f.threshold)}` : `Interval ${cycles(f.threshold)}`}</p>
               <p className="text-sm text-ink-soft">
                 {f.since ? `since ${f.part === 'seals' ? 'they were' : 'it was'} replaced on ${longDate(f.since)}` : 'since installation'}
                 {f.thresholdSource === 'common-practice' ? ' · common-practice interval' : ' · your organisation’s interval'}
@@ -215,10 +229,14 @@ function Forecasts({ a }: { a: ApplicatorDetail }) {
 export function ServiceCaution({ a }: { a: Pick<ApplicatorDetail, 'tag' | 'heated' | 'actuation'> }) {
   return (
     <aside className="rounded-md border-2 border-l-8 border-danger bg-danger-wash px-4 py-3" aria-label="Caution">
-      <p className="flex items-center gap-2 font-bold text-danger-deep"><Icon.warning /> Before servicing {a.tag}</p>
+      <p className="flex items-center gap-2 font-bold text-danger-deep">
+        <Icon.warning /> Before servicing {a.tag}
+      </p>
       <p className="text-sm">
-        Lock out and tag out every energy source{a.actuation === 'electric' ? ' (including the coil driver, which may run at high voltage)' : ' (including the air supply)'}, then relieve air and fluid pressure before opening anything.
-        {a.heated ? ' The valve is heated: let it cool or wear heat-rated gloves.' : ''} Fluid under pressure can inject through skin: treat any injection as a medical emergency. Follow your site’s rules, the valve maker’s manual and the fluid’s safety data sheet.
+        Lock out and tag out every energy source{a.actuation === 'electric' ? ' (including the coil driver, which may run at high voltage)' : ' (including the air supply)'}, then relieve air and fluid
+        pressure before opening anything.
+        {a.heated ? ' The valve is heated: let it cool or wear heat-rated gloves.' : ''} Fluid under pressure can inject through skin: treat any injection as a medical emergency. Follow your site’s
+        rules, the valve maker’s manual and the fluid’s safety data sheet.
       </p>
     </aside>
   );
@@ -269,7 +287,9 @@ function Counter({ a, canManage }: { a: ApplicatorDetail; canManage: boolean }) 
                     variant="quiet"
                     className="text-sm"
                     busy={remove.isPending && remove.variables?.sub === r.id}
-                    onClick={() => window.confirm(`Remove the reading of ${exactCycles(r.count)} on ${longDate(r.readOn)}?`) && remove.mutate({ sub: r.id }, { onSuccess: () => showToast('Reading removed', 'ok') })}
+                    onClick={() =>
+                      window.confirm(`Remove the reading of ${exactCycles(r.count)} on ${longDate(r.readOn)}?`) && remove.mutate({ sub: r.id }, { onSuccess: () => showToast('Reading removed', 'ok') })
+                    }
                   >
                     Remove
                   </Button>
@@ -315,7 +335,16 @@ function ReadingDialog({ a, open, onClose }: { a: ApplicatorDetail; open: boolea
   return (
     <Dialog open={open} title={`Counter reading on ${a.tag}`} onClose={onClose}>
       <form onSubmit={submit} className="space-y-4">
-        <TextField label="Count shown (cycles)" inputMode="numeric" autoComplete="off" value={count} onChange={(e) => setCount(e.target.value)} error={fields.count} hint={a.counter.lastCount !== null ? `Last: ${exactCycles(a.counter.lastCount)} on ${longDate(a.counter.lastReadingOn)}` : undefined} autoFocus />
+        <TextField
+          label="Count shown (cycles)"
+          inputMode="numeric"
+          autoComplete="off"
+          value={count}
+          onChange={(e) => setCount(e.target.value)}
+          error={fields.count}
+          hint={a.counter.lastCount !== null ? `Last: ${exactCycles(a.counter.lastCount)} on ${longDate(a.counter.lastReadingOn)}` : undefined}
+          autoFocus
+        />
         <TextField label="Date read" type="date" value={readOn} max={localToday()} onChange={(e) => setReadOn(e.target.value)} error={fields.readOn} />
         <label className="flex min-h-11 items-start gap-3">
           <input type="checkbox" className="mt-1 size-6" checked={reset} onChange={(e) => setReset(e.target.checked)} />
@@ -326,8 +355,12 @@ function ReadingDialog({ a, open, onClose }: { a: ApplicatorDetail; open: boolea
         </label>
         <TextField label="Note (optional)" value={note} onChange={(e) => setNote(e.target.value)} error={fields.note} />
         <div className="flex justify-end gap-2">
-          <Button variant="secondary" onClick={onClose}>Cancel</Button>
-          <Button type="submit" busy={add.isPending}>Keep reading</Button>
+          <Button variant="secondary" onClick={onClose}>
+            Cancel
+          </Button>
+          <Button type="submit" busy={add.isPending}>
+            Keep reading
+          </Button>
         </div>
       </form>
     </Dialog>
@@ -338,7 +371,9 @@ function History({ a, canManage }: { a: ApplicatorDetail; canManage: boolean }) 
   const remove = useRemoveServiceEvent(a.id);
   return (
     <section aria-labelledby="history">
-      <h2 id="history" className="mb-2 text-xl font-semibold">Service history</h2>
+      <h2 id="history" className="mb-2 text-xl font-semibold">
+        Service history
+      </h2>
       {a.serviceEvents.length === 0 ? (
         <EmptyState title="No service recorded yet">
           <p>Record each seat, needle, seal or coil change here, with the cycle count, so the next one can be planned.</p>
@@ -348,12 +383,16 @@ function History({ a, canManage }: { a: ApplicatorDetail; canManage: boolean }) 
           {a.serviceEvents.map((e) => (
             <li key={e.id} className="rounded-lg border border-rule bg-paper-raised p-3">
               <div className="flex flex-wrap items-baseline justify-between gap-2">
-                <p className="font-semibold">
-                  {e.actions.map((x) => (x === 'other' && e.otherAction ? e.otherAction : SERVICE_ACTION_LABELS[x])).join(', ')}
-                </p>
+                <p className="font-semibold">{e.actions.map((x) => (x === 'other' && e.otherAction ? e.otherAction : SERVICE_ACTION_LABELS[x])).join(', ')}</p>
                 <p className="text-sm text-ink-soft">{longDate(e.performedOn)}</p>
               </div>
-              {e.causeLabel ? <p className="text-sm"><span className="text-ink-soft">Cause:</span> {e.causeLabel}</p> : <p className="text-sm text-ink-soft">Planned service</p>}
+              {e.causeLabel ? (
+                <p className="text-sm">
+                  <span className="text-ink-soft">Cause:</span> {e.causeLabel}
+                </p>
+              ) : (
+                <p className="text-sm text-ink-soft">Planned service</p>
+              )}
               {e.parts.length ? (
                 <ul className="mt-1 text-sm">
                   {e.parts.map((p, i) => (
@@ -374,7 +413,9 @@ function History({ a, canManage }: { a: ApplicatorDetail; canManage: boolean }) 
                         <img src={f.urls.thumb} alt={`Photo from the service on ${longDate(e.performedOn)}`} className="size-20 rounded object-cover" />
                       </a>
                     ) : (
-                      <a key={f.id} href={f.urls.original} className="text-sm font-semibold text-amber-deep underline">{f.originalName}</a>
+                      <a key={f.id} href={f.urls.original} className="text-sm font-semibold text-amber-deep underline">
+                        {f.originalName}
+                      </a>
                     ),
                   )}
                 </div>
@@ -384,7 +425,9 @@ function History({ a, canManage }: { a: ApplicatorDetail; canManage: boolean }) 
                 {e.walkId ? (
                   <>
                     {e.performedBy ? ' · ' : ''}
-                    <Link className="font-semibold text-amber-deep underline" to={`/walks/${e.walkId}/summary`}>the walk that led to it</Link>
+                    <Link className="font-semibold text-amber-deep underline" to={`/walks/${e.walkId}/summary`}>
+                      the walk that led to it
+                    </Link>
                   </>
                 ) : null}
               </p>
@@ -392,7 +435,9 @@ function History({ a, canManage }: { a: ApplicatorDetail; canManage: boolean }) 
                 <Button
                   variant="quiet"
                   className="text-sm"
-                  onClick={() => window.confirm('Remove this service record? The reading taken with it goes too.') && remove.mutate({ sub: e.id }, { onSuccess: () => showToast('Service record removed', 'ok') })}
+                  onClick={() =>
+                    window.confirm('Remove this service record? The reading taken with it goes too.') && remove.mutate({ sub: e.id }, { onSuccess: () => showToast('Service record removed', 'ok') })
+                  }
                 >
                   Remove
                 </Button>
@@ -408,10 +453,22 @@ function History({ a, canManage }: { a: ApplicatorDetail; canManage: boolean }) 
 function Walks({ a }: { a: ApplicatorDetail }) {
   if (!a.walks.length) return null;
   const outcome = (w: ApplicatorDetail['walks'][number]) =>
-    w.status === 'open' ? 'open' : w.status === 'abandoned' ? 'stopped' : w.outcome === 'fixed' ? 'fixed' : w.outcome === 'fixed-by-other' ? 'fixed by something else' : w.outcome === 'not-fixed' ? 'not fixed' : 'handed off';
+    w.status === 'open'
+      ? 'open'
+      : w.status === 'abandoned'
+        ? 'stopped'
+        : w.outcome === 'fixed'
+          ? 'fixed'
+          : w.outcome === 'fixed-by-other'
+            ? 'fixed by something else'
+            : w.outcome === 'not-fixed'
+              ? 'not fixed'
+              : 'handed off';
   return (
     <section aria-labelledby="walks">
-      <h2 id="walks" className="mb-2 text-xl font-semibold">Walks on this applicator</h2>
+      <h2 id="walks" className="mb-2 text-xl font-semibold">
+        Walks on this applicator
+      </h2>
       <ul className="divide-y divide-rule rounded-lg border border-rule bg-paper-raised">
         {a.walks.map((w) => (
           <li key={w.id}>
@@ -443,7 +500,9 @@ function Specs({ a }: { a: ApplicatorDetail }) {
   const family = a.fluidFamily ? (tags.data?.find((t) => t.group === 'fluid' && t.slug === a.fluidFamily)?.label ?? a.fluidFamily) : null;
   const rows: [string, string][] = [
     ['Actuation', ACTUATION_LABELS[a.actuation]],
-    ...(a.actuation === 'electric' ? [['Coil drive', a.coilDrive ? COIL_DRIVE_LABELS[a.coilDrive] : '—'] as [string, string]] : [['Air pressure', withUnit(a.airPressureBar, 'bar', imperial)] as [string, string]]),
+    ...(a.actuation === 'electric'
+      ? [['Coil drive', a.coilDrive ? COIL_DRIVE_LABELS[a.coilDrive] : '—'] as [string, string]]
+      : [['Air pressure', withUnit(a.airPressureBar, 'bar', imperial)] as [string, string]]),
     ['Needle tip', [a.needleTip ? NEEDLE_TIP_LABELS[a.needleTip] : null, a.needleMaterial].filter(Boolean).join(', ') || '—'],
     ['Seat', [a.seatMaterial, a.orificeDiameterMm !== null ? `orifice ${withUnit(a.orificeDiameterMm, 'mm', imperial)}` : null].filter(Boolean).join(', ') || '—'],
     ['Nozzle', a.nozzle ?? '—'],
@@ -457,7 +516,9 @@ function Specs({ a }: { a: ApplicatorDetail }) {
   ];
   return (
     <Card>
-      <h2 className="flex items-center gap-2 text-xl font-semibold"><Icon.valve /> Specs</h2>
+      <h2 className="flex items-center gap-2 text-xl font-semibold">
+        <Icon.valve /> Specs
+      </h2>
       <dl className="mt-2 divide-y divide-rule">
         {rows.map(([k, v]) => (
           <div key={k} className="grid grid-cols-[8.5rem_1fr] gap-3 py-2 sm:grid-cols-[12rem_1fr] lg:grid-cols-[8rem_1fr]">

@@ -20,13 +20,48 @@ export function AssetsRoutes() {
   return (
     <Routes>
       <Route index element={<ApplicatorListPage />} />
-      <Route path="new" element={<Needs permission="assets:manage"><ApplicatorEditPage /></Needs>} />
+      <Route
+        path="new"
+        element={
+          <Needs permission="assets:manage">
+            <ApplicatorEditPage />
+          </Needs>
+        }
+      />
       <Route path="sites" element={<SitesPage />} />
-      <Route path="import" element={<Needs permission="assets:manage"><ImportPage /></Needs>} />
-      <Route path="labels" element={<Needs permission="assets:manage"><LabelsPage /></Needs>} />
+      <Route
+        path="import"
+        element={
+          <Needs permission="assets:manage">
+            <ImportPage />
+          </Needs>
+        }
+      />
+      <Route
+        path="labels"
+        element={
+          <Needs permission="assets:manage">
+            <LabelsPage />
+          </Needs>
+        }
+      />
       <Route path=":id" element={<ApplicatorPage />} />
-      <Route path=":id/edit" element={<Needs permission="assets:manage"><ApplicatorEditPage /></Needs>} />
-      <Route path=":id/service/new" element={<Needs permission="assets:record"><ServiceEventPage /></Needs>} />
+      <Route
+        path=":id/edit"
+        element={
+          <Needs permission="assets:manage">
+            <ApplicatorEditPage />
+          </Needs>
+        }
+      />
+      <Route
+        path=":id/service/new"
+        element={
+          <Needs permission="assets:record">
+            <ServiceEventPage />
+          </Needs>
+        }
+      />
       <Route path="*" element={<NotFoundPage />} />
     </Routes>
   );

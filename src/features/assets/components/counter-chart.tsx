@@ -23,7 +23,11 @@ export function CounterChart({ readings, events }: { readings: ReadingView[]; ev
   const ticks = months.filter((_, i) => i % step === 0);
   return (
     <figure className="mt-3">
-      <div className="h-56 w-full" role="img" aria-label={`Lifetime cycles from ${longDate(readings[0].readOn)} to ${longDate(readings[readings.length - 1].readOn)}, rising to ${formatNumber(data[data.length - 1].millions, { maximumFractionDigits: 1 })} million cycles`}>
+      <div
+        className="h-56 w-full"
+        role="img"
+        aria-label={`Lifetime cycles from ${longDate(readings[0].readOn)} to ${longDate(readings[readings.length - 1].readOn)}, rising to ${formatNumber(data[data.length - 1].millions, { maximumFractionDigits: 1 })} million cycles`}
+      >
         <ResponsiveContainer width="100%" height="100%">
           <LineChart data={data} margin={{ top: 8, right: 12, bottom: 4, left: 0 }}>
             <CartesianGrid stroke={palette.rule.DEFAULT} strokeDasharray="3 3" />
@@ -38,12 +42,7 @@ export function CounterChart({ readings, events }: { readings: ReadingView[]; ev
               fontSize={12}
               minTickGap={24}
             />
-            <YAxis
-              width={56}
-              stroke={palette.ink.soft}
-              fontSize={12}
-              tickFormatter={(v: number) => `${formatNumber(v, { maximumFractionDigits: 1 })} M`}
-            />
+            <YAxis width={56} stroke={palette.ink.soft} fontSize={12} tickFormatter={(v: number) => `${formatNumber(v, { maximumFractionDigits: 1 })} M`} />
             <Tooltip
               labelFormatter={(t) => longDate(new Date(Number(t)).toISOString().slice(0, 10))}
               formatter={(v) => [`${formatNumber(Number(v), { maximumFractionDigits: 2 })} million cycles`, 'Lifetime']}
@@ -57,9 +56,7 @@ export function CounterChart({ readings, events }: { readings: ReadingView[]; ev
           </LineChart>
         </ResponsiveContainer>
       </div>
-      <figcaption className="mt-1 text-sm text-ink-soft">
-        Cycles since installation in millions (M), carried across counter resets. Dashed green lines mark services.
-      </figcaption>
+      <figcaption className="mt-1 text-sm text-ink-soft">Cycles since installation in millions (M), carried across counter resets. Dashed green lines mark services.</figcaption>
     </figure>
   );
 }

@@ -87,7 +87,9 @@ export function ImportPage() {
 
   return (
     <div className="mx-auto max-w-5xl space-y-5">
-      <Link to="/applicators" className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">← Applicators</Link>
+      <Link to="/applicators" className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">
+        ← Applicators
+      </Link>
       <PageHeader
         title="Import from CSV"
         lead="Import sites first, then lines, your own fields, applicators and last counter readings: each list refers to the ones before it. Nothing is imported until every row is valid, unless you choose to import the valid rows only."
@@ -98,8 +100,20 @@ export function ImportPage() {
           <legend className="mb-2 font-semibold">1. What does the file hold?</legend>
           <div className="flex flex-wrap gap-2">
             {IMPORT_KINDS.map((k) => (
-              <label key={k} className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-full border px-4 ${kind === k ? 'border-amber bg-amber-wash font-semibold text-amber-deep' : 'border-rule-strong bg-paper-raised'}`}>
-                <input type="radio" name="kind" className="sr-only" checked={kind === k} onChange={() => { setKind(k); reset(); }} />
+              <label
+                key={k}
+                className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-full border px-4 ${kind === k ? 'border-amber bg-amber-wash font-semibold text-amber-deep' : 'border-rule-strong bg-paper-raised'}`}
+              >
+                <input
+                  type="radio"
+                  name="kind"
+                  className="sr-only"
+                  checked={kind === k}
+                  onChange={() => {
+                    setKind(k);
+                    reset();
+                  }}
+                />
                 {IMPORT_KIND_LABELS[k]}
               </label>
             ))}
@@ -135,15 +149,20 @@ export function ImportPage() {
             </table>
           </div>
           <p className="mt-2 text-sm text-ink-soft">
-            Columns may come in any order and headers ignore case. Commas, semicolons or tabs between columns; dates as YYYY-MM-DD; yes or no for yes/no columns; up to {formatInteger(ASSET_LIMITS.importRows)} rows per file.
+            Columns may come in any order and headers ignore case. Commas, semicolons or tabs between columns; dates as YYYY-MM-DD; yes or no for yes/no columns; up to{' '}
+            {formatInteger(ASSET_LIMITS.importRows)} rows per file.
           </p>
         </details>
-        <a href={`/api/applicators/import/${kind}/template`} download className={buttonClass('secondary', 'mt-3')}>Download the template</a>
+        <a href={`/api/applicators/import/${kind}/template`} download className={buttonClass('secondary', 'mt-3')}>
+          Download the template
+        </a>
       </Card>
 
       <Card>
         <p className="mb-2 font-semibold">2. Choose the file</p>
-        <Button onClick={() => input.current?.click()} busy={preview.isPending}>{file ? 'Choose another file' : 'Choose a CSV file'}</Button>
+        <Button onClick={() => input.current?.click()} busy={preview.isPending}>
+          {file ? 'Choose another file' : 'Choose a CSV file'}
+        </Button>
         <input
           ref={input}
           type="file"
@@ -156,19 +175,35 @@ export function ImportPage() {
             if (f) void choose(f);
           }}
         />
-        {file ? <p className="mt-2 text-sm">File: <span className="font-semibold">{file.name}</span></p> : null}
+        {file ? (
+          <p className="mt-2 text-sm">
+            File: <span className="font-semibold">{file.name}</span>
+          </p>
+        ) : null}
         {preview.isPending ? (
           <div className="mt-3 space-y-2" data-import-progress="preview">
             <StageList label="Checking the file" stages={['Read the file on this device', 'Send it', 'Check every row']} current={sent < 1 ? 1 : 2} />
             <ProgressBar label={sent < 1 ? 'Sending the file' : 'Checking every row'} value={sent < 1 ? sent : null} />
           </div>
         ) : null}
-        {fileProblem ? <div className="mt-3"><Notice tone="error" title="The file cannot be imported">{fileProblem}</Notice></div> : null}
+        {fileProblem ? (
+          <div className="mt-3">
+            <Notice tone="error" title="The file cannot be imported">
+              {fileProblem}
+            </Notice>
+          </div>
+        ) : null}
         {fileError ? (
           <div className="mt-3">
-            <Notice tone="error" title="The file cannot be imported">{fileError.message}</Notice>
+            <Notice tone="error" title="The file cannot be imported">
+              {fileError.message}
+            </Notice>
           </div>
-        ) : preview.isError ? <div className="mt-3"><Notice tone="error" title={errorMessage(preview.error)} /></div> : null}
+        ) : preview.isError ? (
+          <div className="mt-3">
+            <Notice tone="error" title={errorMessage(preview.error)} />
+          </div>
+        ) : null}
       </Card>
 
       <div ref={next} className="scroll-mt-20" />
@@ -178,7 +213,12 @@ export function ImportPage() {
           <p>
             {formatInteger(p.totalRows)} row{p.totalRows === 1 ? '' : 's'} read (columns separated by {DELIMITER_WORDS[p.delimiter] ?? p.delimiter}):{' '}
             <span className="font-semibold text-fixed">{formatInteger(p.validRows)} ready</span>
-            {p.invalidRows ? <>, <span className="font-semibold text-danger">{formatInteger(p.invalidRows)} with problems</span></> : null}.
+            {p.invalidRows ? (
+              <>
+                , <span className="font-semibold text-danger">{formatInteger(p.invalidRows)} with problems</span>
+              </>
+            ) : null}
+            .
           </p>
           {p.sample.length ? (
             <div className="mt-3 overflow-x-auto rounded-md border border-rule">
@@ -187,14 +227,25 @@ export function ImportPage() {
                 <thead className="bg-paper-sunk">
                   <tr>
                     <th className="px-2 py-1">Row</th>
-                    {p.columns.map((c) => <th key={c} className="whitespace-nowrap px-2 py-1">{c}</th>)}
+                    {p.columns.map((c) => (
+                      <th key={c} className="whitespace-nowrap px-2 py-1">
+                        {c}
+                      </th>
+                    ))}
                   </tr>
                 </thead>
                 <tbody className="divide-y divide-rule">
                   {p.sample.map((r) => (
                     <tr key={r.row} className={r.ok ? '' : 'bg-danger-wash'}>
-                      <td className="tabular px-2 py-1">{r.row}{r.ok ? '' : ' ✗'}</td>
-                      {p.columns.map((c) => <td key={c} className="whitespace-nowrap px-2 py-1">{r.values[c]}</td>)}
+                      <td className="tabular px-2 py-1">
+                        {r.row}
+                        {r.ok ? '' : ' ✗'}
+                      </td>
+                      {p.columns.map((c) => (
+                        <td key={c} className="whitespace-nowrap px-2 py-1">
+                          {r.values[c]}
+                        </td>
+                      ))}
                     </tr>
                   ))}
                 </tbody>
@@ -210,22 +261,48 @@ export function ImportPage() {
           {commitError ? (
             <div className="mt-3">
               <Notice tone="error" title={commitError.message} />
-              {commitProblems ? <div className="mt-2"><Problems problems={commitProblems} more={Number(commitError.details?.moreProblems ?? 0)} /></div> : null}
+              {commitProblems ? (
+                <div className="mt-2">
+                  <Problems problems={commitProblems} more={Number(commitError.details?.moreProblems ?? 0)} />
+                </div>
+              ) : null}
             </div>
-          ) : commit.isError ? <div className="mt-3"><Notice tone="error" title={errorMessage(commit.error)} /></div> : null}
+          ) : commit.isError ? (
+            <div className="mt-3">
+              <Notice tone="error" title={errorMessage(commit.error)} />
+            </div>
+          ) : null}
           <div className="mt-4 flex flex-wrap gap-2">
-            <Button disabled={p.invalidRows > 0 || p.validRows === 0} busy={commit.isPending && commit.variables?.mode === 'all-or-nothing'} onClick={() => { setSent(0); commit.mutate({ kind, csv: file.text, mode: 'all-or-nothing', onProgress: setSent }, { onSuccess: setResult }); }}>
+            <Button
+              disabled={p.invalidRows > 0 || p.validRows === 0}
+              busy={commit.isPending && commit.variables?.mode === 'all-or-nothing'}
+              onClick={() => {
+                setSent(0);
+                commit.mutate({ kind, csv: file.text, mode: 'all-or-nothing', onProgress: setSent }, { onSuccess: setResult });
+              }}
+            >
               Import all {formatInteger(p.totalRows)} rows
             </Button>
             {p.invalidRows > 0 && p.validRows > 0 ? (
-              <Button variant="secondary" busy={commit.isPending && commit.variables?.mode === 'valid-only'} onClick={() => { setSent(0); commit.mutate({ kind, csv: file.text, mode: 'valid-only', onProgress: setSent }, { onSuccess: setResult }); }}>
+              <Button
+                variant="secondary"
+                busy={commit.isPending && commit.variables?.mode === 'valid-only'}
+                onClick={() => {
+                  setSent(0);
+                  commit.mutate({ kind, csv: file.text, mode: 'valid-only', onProgress: setSent }, { onSuccess: setResult });
+                }}
+              >
                 Import the {formatInteger(p.validRows)} valid rows only
               </Button>
             ) : null}
           </div>
           {commit.isPending ? (
             <div className="mt-3 space-y-2" data-import-progress="commit">
-              <StageList label="Importing" stages={['Send the file', commit.variables?.mode === 'valid-only' ? 'Import the valid rows' : 'Import every row, or none if one fails']} current={sent < 1 ? 0 : 1} />
+              <StageList
+                label="Importing"
+                stages={['Send the file', commit.variables?.mode === 'valid-only' ? 'Import the valid rows' : 'Import every row, or none if one fails']}
+                current={sent < 1 ? 0 : 1}
+              />
               <ProgressBar label={sent < 1 ? 'Sending the file' : 'Importing the rows'} value={sent < 1 ? sent : null} />
             </div>
           ) : null}
@@ -238,10 +315,18 @@ export function ImportPage() {
           <Notice tone="ok" title={`Imported ${formatInteger(result.imported)} row${result.imported === 1 ? '' : 's'} of ${IMPORT_KIND_LABELS[result.kind].toLowerCase()}`}>
             {result.skippedRows ? `${formatInteger(result.skippedRows)} row${result.skippedRows === 1 ? ' was' : 's were'} skipped; they are listed below.` : 'Every row was imported.'}
           </Notice>
-          {result.skipped.length ? <div className="mt-3"><Problems problems={result.skipped} more={0} /></div> : null}
+          {result.skipped.length ? (
+            <div className="mt-3">
+              <Problems problems={result.skipped} more={0} />
+            </div>
+          ) : null}
           <div className="mt-3 flex flex-wrap gap-2">
-            <Button variant="secondary" onClick={reset}>Import another file</Button>
-            <Link className={buttonClass('quiet')} to="/applicators">See the applicators</Link>
+            <Button variant="secondary" onClick={reset}>
+              Import another file
+            </Button>
+            <Link className={buttonClass('quiet')} to="/applicators">
+              See the applicators
+            </Link>
           </div>
         </Card>
       ) : null}

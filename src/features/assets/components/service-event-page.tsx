@@ -20,7 +20,14 @@ export function ServiceEventPage() {
   const id = Number(useParams().id);
   const q = useApplicator(Number.isInteger(id) ? id : 0);
   if (q.isPending) return <LoadingBlock label="Opening the applicator" />;
-  if (q.isError) return q.error instanceof ApiError && q.error.status === 404 ? <NotFoundPage /> : <Notice tone="error" title="This applicator could not be opened">{errorMessage(q.error)}</Notice>;
+  if (q.isError)
+    return q.error instanceof ApiError && q.error.status === 404 ? (
+      <NotFoundPage />
+    ) : (
+      <Notice tone="error" title="This applicator could not be opened">
+        {errorMessage(q.error)}
+      </Notice>
+    );
   return <ServiceForm a={q.data} />;
 }
 
@@ -99,13 +106,20 @@ function ServiceForm({ a }: { a: ApplicatorDetail }) {
   return (
     <form onSubmit={submit} className="mx-auto max-w-xl space-y-5 pb-28" noValidate>
       <div>
-        <Link to={`/applicators/${a.id}`} className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">← {a.tag}</Link>
+        <Link to={`/applicators/${a.id}`} className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">
+          ← {a.tag}
+        </Link>
         <h1 className="text-2xl font-semibold">Record service on {a.tag}</h1>
-        <p className="text-ink-soft">{a.siteName} · {a.lineName}</p>
+        <p className="text-ink-soft">
+          {a.siteName} · {a.lineName}
+        </p>
       </div>
       {walkId ? (
         <Notice tone="ok" title="Linked to the walk that found the cause">
-          <Link className="font-semibold underline" to={`/walks/${walkId}/summary`}>See the walk’s record</Link>. Check the entries below and change what differs.
+          <Link className="font-semibold underline" to={`/walks/${walkId}/summary`}>
+            See the walk’s record
+          </Link>
+          . Check the entries below and change what differs.
         </Notice>
       ) : null}
       <ServiceCaution a={a} />
@@ -114,7 +128,10 @@ function ServiceForm({ a }: { a: ApplicatorDetail }) {
         <legend className="mb-2 font-semibold">What was done</legend>
         <div className="grid grid-cols-2 gap-2">
           {SERVICE_ACTIONS.map((x) => (
-            <label key={x} className={`flex min-h-12 cursor-pointer items-center gap-3 rounded-md border px-3 ${actions.includes(x) ? 'border-amber bg-amber-wash font-semibold' : 'border-rule-strong bg-paper-raised'}`}>
+            <label
+              key={x}
+              className={`flex min-h-12 cursor-pointer items-center gap-3 rounded-md border px-3 ${actions.includes(x) ? 'border-amber bg-amber-wash font-semibold' : 'border-rule-strong bg-paper-raised'}`}
+            >
               <input type="checkbox" className="size-5 accent-[#9C5700]" checked={actions.includes(x)} onChange={() => toggle(x)} />
               {SERVICE_ACTION_LABELS[x]}
             </label>
@@ -133,7 +150,9 @@ function ServiceForm({ a }: { a: ApplicatorDetail }) {
           <SelectField label="Cause" value={causeCode} onChange={(e) => setCauseCode(e.target.value)} error={fields.causeCode}>
             <option value="">Choose the cause</option>
             {activeCauses.map((c) => (
-              <option key={c.code} value={c.code}>{c.label}</option>
+              <option key={c.code} value={c.code}>
+                {c.label}
+              </option>
             ))}
           </SelectField>
         ) : null}
@@ -146,12 +165,29 @@ function ServiceForm({ a }: { a: ApplicatorDetail }) {
         {parts.map((p, i) => (
           <div key={i} className="grid grid-cols-[1fr_5rem] gap-2 rounded-md border border-rule p-2 sm:grid-cols-[1fr_9rem_5rem_auto]">
             <TextField label="Part" value={p.name} onChange={(e) => setParts((ps) => ps.map((x, j) => (j === i ? { ...x, name: e.target.value } : x)))} error={fields[`parts.${i}.name`]} />
-            <TextField label="Qty" inputMode="numeric" value={p.quantity} onChange={(e) => setParts((ps) => ps.map((x, j) => (j === i ? { ...x, quantity: e.target.value } : x)))} error={fields[`parts.${i}.quantity`]} className="sm:order-3" />
-            <TextField label="Part number" value={p.partNumber} onChange={(e) => setParts((ps) => ps.map((x, j) => (j === i ? { ...x, partNumber: e.target.value } : x)))} error={fields[`parts.${i}.partNumber`]} className="sm:order-2" />
-            <Button variant="quiet" className="self-end sm:order-4" onClick={() => setParts((ps) => ps.filter((_, j) => j !== i))}>Remove</Button>
+            <TextField
+              label="Qty"
+              inputMode="numeric"
+              value={p.quantity}
+              onChange={(e) => setParts((ps) => ps.map((x, j) => (j === i ? { ...x, quantity: e.target.value } : x)))}
+              error={fields[`parts.${i}.quantity`]}
+              className="sm:order-3"
+            />
+            <TextField
+              label="Part number"
+              value={p.partNumber}
+              onChange={(e) => setParts((ps) => ps.map((x, j) => (j === i ? { ...x, partNumber: e.target.value } : x)))}
+              error={fields[`parts.${i}.partNumber`]}
+              className="sm:order-2"
+            />
+            <Button variant="quiet" className="self-end sm:order-4" onClick={() => setParts((ps) => ps.filter((_, j) => j !== i))}>
+              Remove
+            </Button>
           </div>
         ))}
-        <Button variant="secondary" onClick={() => setParts((ps) => [...ps, { name: '', partNumber: '', quantity: '1' }])}>Add a part</Button>
+        <Button variant="secondary" onClick={() => setParts((ps) => [...ps, { name: '', partNumber: '', quantity: '1' }])}>
+          Add a part
+        </Button>
       </fieldset>
 
       <div className="space-y-2">
@@ -194,7 +230,9 @@ function ServiceForm({ a }: { a: ApplicatorDetail }) {
       {problem ? <Notice tone="error" title={problem} /> : null}
       <div className="fixed inset-x-0 bottom-0 z-20 border-t border-rule bg-paper/95 px-4 py-2 backdrop-blur">
         <div className="mx-auto max-w-xl">
-          <Button type="submit" className="w-full !min-h-14 text-lg" busy={add.isPending}>Record service</Button>
+          <Button type="submit" className="w-full !min-h-14 text-lg" busy={add.isPending}>
+            Record service
+          </Button>
         </div>
       </div>
     </form>

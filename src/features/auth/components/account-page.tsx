@@ -60,9 +60,7 @@ export function AccountPage() {
             disabled={profile.isPending}
             hint="Values can be typed in either system wherever you enter them."
           >
-            <option value="organisation">
-              Organisation default ({me.user.organisationUnitSystem === 'imperial' ? 'US customary' : 'metric'})
-            </option>
+            <option value="organisation">Organisation default ({me.user.organisationUnitSystem === 'imperial' ? 'US customary' : 'metric'})</option>
             <option value="metric">Metric (bar, mm, °C)</option>
             <option value="imperial">US customary (psi, in, °F)</option>
           </SelectField>

@@ -51,15 +51,7 @@ export function SignInPage() {
           <h1 className="text-xl font-semibold">Sign in</h1>
           {login.isError ? <Notice tone="error" title={errorMessage(login.error)} /> : null}
           <TextField label="E-mail" type="email" autoComplete="username" inputMode="email" value={email} onChange={(e) => setEmail(e.target.value)} error={fields.email} required />
-          <TextField
-            label="Password"
-            type="password"
-            autoComplete="current-password"
-            value={password}
-            onChange={(e) => setPassword(e.target.value)}
-            error={fields.password}
-            required
-          />
+          <TextField label="Password" type="password" autoComplete="current-password" value={password} onChange={(e) => setPassword(e.target.value)} error={fields.password} required />
           <Button type="submit" className="w-full" busy={login.isPending}>
             Sign in
           </Button>

@@ -16,7 +16,10 @@ const FIRST: Record<Role, string[]> = {
 export function CalculatorTiles({ role, limit = 6 }: { role: Role; limit?: number }) {
   const all = listCalculators();
   const order = FIRST[role];
-  const picked = order.map((id) => all.find((c) => c.id === id)).filter((c) => c !== undefined).slice(0, limit);
+  const picked = order
+    .map((id) => all.find((c) => c.id === id))
+    .filter((c) => c !== undefined)
+    .slice(0, limit);
   return (
     <div>
       <ul className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-3">

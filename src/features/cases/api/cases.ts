@@ -1,16 +1,7 @@
 // Case, notice and outbox endpoints: key factory, fetchers and hooks. Mutations answer with the
 // whole case, which replaces the cached one, so the timeline is always the server's.
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type {
-  CaseDetail,
-  CaseList,
-  CasePerson,
-  CaseStatus,
-  NoticeView,
-  OutboxList,
-  OutboxMessage,
-  SummaryPreview,
-} from '@/shared/schemas/cases';
+import type { CaseDetail, CaseList, CasePerson, CaseStatus, NoticeView, OutboxList, OutboxMessage, SummaryPreview } from '@/shared/schemas/cases';
 import { api } from '@/lib/api-client';
 
 export interface CaseFilters {

@@ -74,7 +74,15 @@ export function HandoffDialog({ kase, open, onClose }: { kase: CaseDetail; open:
           <label htmlFor="handoff-note" className="mb-1 block text-sm font-semibold">
             What should they know?
           </label>
-          <textarea id="handoff-note" rows={4} className={inputClass} value={note} onChange={(e) => setNote(e.target.value)} aria-invalid={fields.note ? true : undefined} placeholder="What the caller tried, readings, when to call back" />
+          <textarea
+            id="handoff-note"
+            rows={4}
+            className={inputClass}
+            value={note}
+            onChange={(e) => setNote(e.target.value)}
+            aria-invalid={fields.note ? true : undefined}
+            placeholder="What the caller tried, readings, when to call back"
+          />
           {fields.note ? <p className="mt-1 text-sm font-semibold text-danger">{fields.note}</p> : null}
         </div>
         <div className="flex justify-end gap-2">

@@ -2,16 +2,7 @@
 // the address so a count on the home page can link straight to its slice.
 import { useMemo, useState, type ReactNode } from 'react';
 import { Link, useSearchParams } from 'react-router';
-import {
-  createColumnHelper,
-  rowPaginationFeature,
-  rowSortingFeature,
-  tableFeatures,
-  useTable,
-  type PaginationState,
-  type SortingState,
-  type Updater,
-} from '@tanstack/react-table';
+import { createColumnHelper, rowPaginationFeature, rowSortingFeature, tableFeatures, useTable, type PaginationState, type SortingState, type Updater } from '@tanstack/react-table';
 import { CASE_AGES, CASE_AGE_LABELS, CASE_SORTS, CASE_STATUSES, CASE_STATUS_LABELS, OPEN_CASE_STATUSES, type CaseListItem } from '@/shared/schemas/cases';
 import { useCan, useMe } from '@/lib/auth';
 import { ButtonLink, Button } from '@/components/ui/button';
@@ -169,7 +160,12 @@ export function CaseListPage() {
         {chip('all', 'Every case', counts ? Object.values(counts).reduce((a, b) => a + b, 0) : null)}
       </div>
 
-      <button type="button" className="mb-3 inline-flex min-h-11 items-center gap-2 font-semibold text-amber-deep underline md:hidden" aria-expanded={showFilters} onClick={() => setShowFilters((v) => !v)}>
+      <button
+        type="button"
+        className="mb-3 inline-flex min-h-11 items-center gap-2 font-semibold text-amber-deep underline md:hidden"
+        aria-expanded={showFilters}
+        onClick={() => setShowFilters((v) => !v)}
+      >
         {showFilters ? 'Hide filters' : `Filters and order${activeFilters ? ` (${activeFilters} on)` : ''}`}
       </button>
       <form
@@ -181,7 +177,13 @@ export function CaseListPage() {
       >
         <label className="text-sm font-semibold">
           Search
-          <input className={`${inputClass} mt-1 font-normal`} value={qDraft} onChange={(e) => setQDraft(e.target.value)} onBlur={() => set({ q: qDraft.trim() })} placeholder="Caller, company, symptom or case number" />
+          <input
+            className={`${inputClass} mt-1 font-normal`}
+            value={qDraft}
+            onChange={(e) => setQDraft(e.target.value)}
+            onBlur={() => set({ q: qDraft.trim() })}
+            placeholder="Caller, company, symptom or case number"
+          />
         </label>
         <label className="text-sm font-semibold">
           Site
@@ -215,7 +217,11 @@ export function CaseListPage() {
         </label>
         <label className="text-sm font-semibold md:hidden">
           Order
-          <select className={`${inputClass} mt-1 font-normal`} value={`${filters.sort}:${filters.dir}`} onChange={(e) => set({ sort: e.target.value.split(':')[0], dir: e.target.value.split(':')[1] })}>
+          <select
+            className={`${inputClass} mt-1 font-normal`}
+            value={`${filters.sort}:${filters.dir}`}
+            onChange={(e) => set({ sort: e.target.value.split(':')[0], dir: e.target.value.split(':')[1] })}
+          >
             <option value="created:asc">Waiting longest first</option>
             <option value="created:desc">Newest first</option>
             <option value="priority:desc">Most urgent first</option>

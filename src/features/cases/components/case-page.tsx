@@ -71,7 +71,12 @@ function Timeline({ events }: { events: CaseEvent[] }) {
                       <img src={f.urls.thumb} alt={f.originalName} className="size-24 rounded border border-rule object-cover" />
                     </a>
                   ) : (
-                    <a href={f.urls.original ?? Object.values(f.urls)[0]} className="inline-flex min-h-11 items-center rounded border border-rule px-3 text-sm font-semibold text-amber-deep underline" target="_blank" rel="noreferrer">
+                    <a
+                      href={f.urls.original ?? Object.values(f.urls)[0]}
+                      className="inline-flex min-h-11 items-center rounded border border-rule px-3 text-sm font-semibold text-amber-deep underline"
+                      target="_blank"
+                      rel="noreferrer"
+                    >
                       {f.originalName}
                     </a>
                   )}
@@ -113,7 +118,15 @@ function NoteForm({ caseId }: { caseId: number }) {
       <label htmlFor="case-note" className="block text-sm font-semibold">
         Add a note
       </label>
-      <textarea id="case-note" rows={3} className={inputClass} value={text} onChange={(e) => setText(e.target.value)} placeholder="What the caller said, what you agreed" aria-invalid={fields.text ? true : undefined} />
+      <textarea
+        id="case-note"
+        rows={3}
+        className={inputClass}
+        value={text}
+        onChange={(e) => setText(e.target.value)}
+        placeholder="What the caller said, what you agreed"
+        aria-invalid={fields.text ? true : undefined}
+      />
       {fields.text || fields.fileIds ? <p className="text-sm font-semibold text-danger">{fields.text ?? fields.fileIds}</p> : null}
       {files.length ? (
         <ul className="flex flex-wrap gap-2 text-sm">
@@ -191,14 +204,28 @@ function LinkedWalks({ kase, myId }: { kase: CaseDetail; myId: number | undefine
       <h2 className="text-lg font-semibold">Walks with the caller</h2>
       <ul className="mt-2 space-y-2">
         {kase.walks.map((w) => {
-          const result = w.status === 'open' ? 'In progress' : w.status === 'abandoned' ? 'Stopped' : w.endKind === 'handoff' ? 'Ended at a hand-off' : w.outcome === 'not-fixed' ? 'Not fixed' : w.outcome === 'fixed-by-other' ? 'Fixed by something else' : 'Fixed';
+          const result =
+            w.status === 'open'
+              ? 'In progress'
+              : w.status === 'abandoned'
+                ? 'Stopped'
+                : w.endKind === 'handoff'
+                  ? 'Ended at a hand-off'
+                  : w.outcome === 'not-fixed'
+                    ? 'Not fixed'
+                    : w.outcome === 'fixed-by-other'
+                      ? 'Fixed by something else'
+                      : 'Fixed';
           return (
             <li key={w.id} className="rounded-md border border-rule p-3" data-walk={w.id}>
               <p className="font-semibold">{w.guideTitle}</p>
               <p className="text-sm">
                 <span className={w.outcome === 'fixed' || w.endKind === 'fixed-by-try' ? 'font-semibold text-fixed' : 'font-semibold'}>{result}</span>
                 {w.stepTitle ? <span className="text-ink-soft"> · {w.stepTitle}</span> : null}
-                <span className="text-ink-soft"> · {w.userName ?? 'someone'}, {since(w.startedAt)}</span>
+                <span className="text-ink-soft">
+                  {' '}
+                  · {w.userName ?? 'someone'}, {since(w.startedAt)}
+                </span>
               </p>
               <div className="mt-1 flex flex-wrap gap-3 text-sm">
                 {w.status === 'open' ? (
@@ -228,7 +255,11 @@ export function CasePage() {
   if (kase.isPending) return <LoadingBlock label="Opening the case" />;
   if (kase.isError) {
     if (kase.error instanceof ApiError && kase.error.status === 404) return <NotFoundPage />;
-    return <Notice tone="error" title="The case could not be opened">{errorMessage(kase.error)}</Notice>;
+    return (
+      <Notice tone="error" title="The case could not be opened">
+        {errorMessage(kase.error)}
+      </Notice>
+    );
   }
   const c = kase.data;
   const last = c.walks.at(-1);
@@ -249,7 +280,13 @@ export function CasePage() {
         <div className="mt-2 flex flex-wrap items-center gap-2">
           <StatusBadge status={c.status} />
           <PriorityBadge priority={c.priority} />
-          {c.assignee ? <span className="text-sm">Assigned to <strong>{c.assignee.name}</strong></span> : <span className="text-sm text-ink-soft">Nobody assigned</span>}
+          {c.assignee ? (
+            <span className="text-sm">
+              Assigned to <strong>{c.assignee.name}</strong>
+            </span>
+          ) : (
+            <span className="text-sm text-ink-soft">Nobody assigned</span>
+          )}
         </div>
       </div>
 

@@ -90,7 +90,16 @@ export function LogCallPage() {
           <TextField label="Name" value={form.callerName} onChange={set('callerName')} error={fields.callerName} autoComplete="off" />
           <TextField label="Company" value={form.callerCompany} onChange={set('callerCompany')} error={fields.callerCompany} autoComplete="off" />
           <TextField label="Phone" type="tel" inputMode="tel" value={form.callerPhone} onChange={set('callerPhone')} error={fields.callerPhone} autoComplete="off" />
-          <TextField label="E-mail" type="email" inputMode="email" value={form.callerEmail} onChange={set('callerEmail')} error={fields.callerEmail} hint="For the written summary after the call." autoComplete="off" />
+          <TextField
+            label="E-mail"
+            type="email"
+            inputMode="email"
+            value={form.callerEmail}
+            onChange={set('callerEmail')}
+            error={fields.callerEmail}
+            hint="For the written summary after the call."
+            autoComplete="off"
+          />
         </div>
       </fieldset>
 
@@ -130,7 +139,12 @@ export function LogCallPage() {
               <summary className="min-h-11 cursor-pointer content-center text-sm font-semibold text-amber-deep">Or pick one of the symptoms the guides start from</summary>
               <div className="mt-1 flex flex-wrap gap-2" aria-label="Symptoms the guides start from">
                 {symptoms.map((s) => (
-                  <button key={s} type="button" className="min-h-11 rounded-full border border-amber-line px-3 text-left text-sm font-semibold hover:bg-amber-wash" onClick={() => setForm((f) => ({ ...f, symptom: s }))}>
+                  <button
+                    key={s}
+                    type="button"
+                    className="min-h-11 rounded-full border border-amber-line px-3 text-left text-sm font-semibold hover:bg-amber-wash"
+                    onClick={() => setForm((f) => ({ ...f, symptom: s }))}
+                  >
                     {s}
                   </button>
                 ))}
@@ -142,7 +156,10 @@ export function LogCallPage() {
           <legend className="mb-1 text-sm font-semibold">Priority</legend>
           <div className="flex flex-wrap gap-2">
             {CASE_PRIORITIES.map((p) => (
-              <label key={p} className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 ${form.priority === p ? 'border-amber bg-amber-wash' : 'border-rule-strong bg-paper-raised'}`}>
+              <label
+                key={p}
+                className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 ${form.priority === p ? 'border-amber bg-amber-wash' : 'border-rule-strong bg-paper-raised'}`}
+              >
                 <input type="radio" name="priority" className="size-5 accent-[#9C5700]" checked={form.priority === p} onChange={() => setForm((f) => ({ ...f, priority: p }))} />
                 {CASE_PRIORITY_LABELS[p]}
               </label>

@@ -11,9 +11,7 @@ export function NoticesList() {
   if (!list.length) return null;
   return (
     <Card>
-      <h2 className="text-lg font-semibold">
-        For you{notices.data?.unread ? <span className="ml-2 rounded-full bg-amber px-2 text-sm text-white tabular">{notices.data.unread} new</span> : null}
-      </h2>
+      <h2 className="text-lg font-semibold">For you{notices.data?.unread ? <span className="ml-2 rounded-full bg-amber px-2 text-sm text-white tabular">{notices.data.unread} new</span> : null}</h2>
       <ul className="mt-2 space-y-2">
         {list.slice(0, 6).map((n) => (
           <li key={n.id} data-notice={n.kind} className={`rounded-md border p-3 ${n.readAt ? 'border-rule' : 'border-amber-line bg-amber-wash'}`}>

@@ -27,7 +27,12 @@ function MessageView({ id }: { id: number }) {
   const resend = useResend();
   const [tab, setTab] = useState<'text' | 'html'>('html');
   if (msg.isPending) return <LoadingBlock label="Opening the message" />;
-  if (msg.isError) return <Notice tone="error" title="The message could not be opened">{errorMessage(msg.error)}</Notice>;
+  if (msg.isError)
+    return (
+      <Notice tone="error" title="The message could not be opened">
+        {errorMessage(msg.error)}
+      </Notice>
+    );
   const m = msg.data;
   return (
     <Card className="space-y-3">
@@ -38,7 +43,10 @@ function MessageView({ id }: { id: number }) {
         <dt className="text-ink-soft">To</dt>
         <dd className="break-all">{m.to}</dd>
         <dt className="text-ink-soft">Kind</dt>
-        <dd>{MAIL_KIND_LABELS[m.kind]}{m.caseId ? ` · case ${m.caseId}` : ''}</dd>
+        <dd>
+          {MAIL_KIND_LABELS[m.kind]}
+          {m.caseId ? ` · case ${m.caseId}` : ''}
+        </dd>
         <dt className="text-ink-soft">Written</dt>
         <dd>{when(m.createdAt)}</dd>
         <dt className="text-ink-soft">State</dt>
@@ -66,7 +74,11 @@ function MessageView({ id }: { id: number }) {
           Send again
         </Button>
       ) : null}
-      {m.hidden ? <Notice tone="info" title="The one-time link in this message is withheld here">It belongs to the person it was sent to.</Notice> : null}
+      {m.hidden ? (
+        <Notice tone="info" title="The one-time link in this message is withheld here">
+          It belongs to the person it was sent to.
+        </Notice>
+      ) : null}
       <div role="tablist" aria-label="Message part" className="flex gap-2 border-b border-rule">
         {(['html', 'text'] as const).map((t) => (
           <button
@@ -121,8 +133,9 @@ export function OutboxPage() {
   const list = useOutbox({ status, page, pageSize: 25 });
   const set = (patch: Record<string, string | null>) => {
     const next = new URLSearchParams(params);
-    for (const [k, v] of Object.entries(patch)) if (v === null) next.delete(k);
-    else next.set(k, v);
+    for (const [k, v] of Object.entries(patch))
+      if (v === null) next.delete(k);
+      else next.set(k, v);
     setParams(next, { replace: true });
   };
   const viewRef = useRef<HTMLDivElement>(null);
@@ -162,7 +175,9 @@ export function OutboxPage() {
           {list.isPending ? (
             <ListSkeleton label="Loading messages" />
           ) : list.isError ? (
-            <Notice tone="error" title="The outbox could not be loaded">{errorMessage(list.error)}</Notice>
+            <Notice tone="error" title="The outbox could not be loaded">
+              {errorMessage(list.error)}
+            </Notice>
           ) : list.data.messages.length === 0 ? (
             <EmptyState title="No message here">Invitations, password resets and case e-mails appear as soon as they are written.</EmptyState>
           ) : (
@@ -188,7 +203,9 @@ export function OutboxPage() {
             </>
           )}
         </div>
-        <div ref={viewRef} className="scroll-mt-20">{selected ? <MessageView key={selected} id={selected} /> : <p className="hidden text-ink-soft lg:block">Choose a message to read it.</p>}</div>
+        <div ref={viewRef} className="scroll-mt-20">
+          {selected ? <MessageView key={selected} id={selected} /> : <p className="hidden text-ink-soft lg:block">Choose a message to read it.</p>}
+        </div>
       </div>
     </div>
   );

@@ -58,7 +58,9 @@ export function useGuideAction(id: number) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: ({ action, comment, baseLockVersion }: { action: Action; comment?: string; baseLockVersion?: number }) =>
-      api<{ guide: GuideDetail }>(`/api/guides/${id}/${action}`, { method: 'POST', body: { ...(comment !== undefined ? { comment } : {}), ...(baseLockVersion ? { baseLockVersion } : {}) } }).then((r) => r.guide),
+      api<{ guide: GuideDetail }>(`/api/guides/${id}/${action}`, { method: 'POST', body: { ...(comment !== undefined ? { comment } : {}), ...(baseLockVersion ? { baseLockVersion } : {}) } }).then(
+        (r) => r.guide,
+      ),
     onSuccess: (g) => {
       qc.setQueryData(guideKeys.detail(id), g);
       qc.invalidateQueries({ queryKey: [...guideKeys.all, 'list'] });

@@ -37,12 +37,20 @@ export function GuideEditorPage() {
   if (guide.isPending) return <LoadingBlock label="Opening the editor" />;
   if (guide.isError) {
     if (guide.error instanceof ApiError && guide.error.status === 404) return <NotFoundPage />;
-    return <Notice tone="error" title="The guide could not be opened">{errorMessage(guide.error)}</Notice>;
+    return (
+      <Notice tone="error" title="The guide could not be opened">
+        {errorMessage(guide.error)}
+      </Notice>
+    );
   }
   if (guide.data.draftState === 'in_review') {
     return (
       <Notice tone="warn" title="This guide is waiting for review">
-        Withdraw it from review on <Link className="underline" to={`/guides/${id}`}>its page</Link> to edit it.
+        Withdraw it from review on{' '}
+        <Link className="underline" to={`/guides/${id}`}>
+          its page
+        </Link>{' '}
+        to edit it.
       </Notice>
     );
   }
@@ -115,7 +123,11 @@ function Editor({ guide }: { guide: GuideDetail }) {
   const problemList = (ps: GuideProblem[], tone: 'error' | 'warn') =>
     ps.map((p, i) => (
       <li key={`${tone}-${i}`}>
-        <button type="button" className={`w-full min-h-11 rounded px-2 py-1 text-left text-sm ${tone === 'error' ? 'hover:bg-danger-wash' : 'hover:bg-amber-wash'}`} onClick={() => p.stepId && setSelected(p.stepId)}>
+        <button
+          type="button"
+          className={`w-full min-h-11 rounded px-2 py-1 text-left text-sm ${tone === 'error' ? 'hover:bg-danger-wash' : 'hover:bg-amber-wash'}`}
+          onClick={() => p.stepId && setSelected(p.stepId)}
+        >
           <span className={`mr-2 font-semibold ${tone === 'error' ? 'text-danger-deep' : 'text-amber-deep'}`}>{tone === 'error' ? 'Fix' : 'Check'}</span>
           {p.message}
         </button>
@@ -126,22 +138,41 @@ function Editor({ guide }: { guide: GuideDetail }) {
     <div>
       <div className="mb-4 flex flex-wrap items-center justify-between gap-3">
         <div>
-          <Link to={`/guides/${guide.id}`} className="text-sm font-semibold text-amber-deep underline">Back to the guide</Link>
+          <Link to={`/guides/${guide.id}`} className="text-sm font-semibold text-amber-deep underline">
+            Back to the guide
+          </Link>
           <h1 className="text-2xl font-semibold">{meta.title || 'Untitled guide'}</h1>
         </div>
         <div className="flex flex-wrap items-center gap-2">
-          <p role="status" aria-live="polite" data-save-status={d.status} className={`text-sm font-semibold ${d.status === 'saved' ? 'text-fixed' : d.status === 'error' || d.status === 'conflict' ? 'text-danger' : 'text-ink-soft'}`}>
+          <p
+            role="status"
+            aria-live="polite"
+            data-save-status={d.status}
+            className={`text-sm font-semibold ${d.status === 'saved' ? 'text-fixed' : d.status === 'error' || d.status === 'conflict' ? 'text-danger' : 'text-ink-soft'}`}
+          >
             {STATUS_WORDS[d.status]}
           </p>
-          <Button variant="secondary" onClick={d.undo} disabled={!d.canUndo} aria-keyshortcuts="Control+Z">Undo</Button>
-          <Button variant="secondary" onClick={d.redo} disabled={!d.canRedo} aria-keyshortcuts="Control+Shift+Z">Redo</Button>
+          <Button variant="secondary" onClick={d.undo} disabled={!d.canUndo} aria-keyshortcuts="Control+Z">
+            Undo
+          </Button>
+          <Button variant="secondary" onClick={d.redo} disabled={!d.canRedo} aria-keyshortcuts="Control+Shift+Z">
+            Redo
+          </Button>
           <Button
             disabled={validation.errors.length > 0 || d.status === 'saving'}
             title={validation.errors.length ? 'Fix the problems listed first' : undefined}
             busy={submit.isPending}
             onClick={async () => {
               if (d.unsaved) await d.save();
-              submit.mutate({ action: 'submit', baseLockVersion: d.lockVersion() }, { onSuccess: () => { showToast('Submitted for review', 'ok'); navigate(`/guides/${guide.id}`); } });
+              submit.mutate(
+                { action: 'submit', baseLockVersion: d.lockVersion() },
+                {
+                  onSuccess: () => {
+                    showToast('Submitted for review', 'ok');
+                    navigate(`/guides/${guide.id}`);
+                  },
+                },
+              );
             }}
           >
             Submit for review
@@ -153,43 +184,79 @@ function Editor({ guide }: { guide: GuideDetail }) {
         <div className="mb-4">
           <Notice tone="warn" title="Unsaved changes from this device">
             <div className="mt-1 flex flex-wrap gap-2">
-              <Button onClick={() => { d.change(backup.draft); setBackup(null); }}>Bring them back</Button>
-              <Button variant="secondary" onClick={() => { clearGuideBackup(guide.id); setBackup(null); }}>Discard them</Button>
+              <Button
+                onClick={() => {
+                  d.change(backup.draft);
+                  setBackup(null);
+                }}
+              >
+                Bring them back
+              </Button>
+              <Button
+                variant="secondary"
+                onClick={() => {
+                  clearGuideBackup(guide.id);
+                  setBackup(null);
+                }}
+              >
+                Discard them
+              </Button>
             </div>
           </Notice>
         </div>
       ) : null}
-      {d.message ? <div className="mb-4"><Notice tone={d.status === 'offline' ? 'warn' : 'error'} title={d.message} /></div> : null}
+      {d.message ? (
+        <div className="mb-4">
+          <Notice tone={d.status === 'offline' ? 'warn' : 'error'} title={d.message} />
+        </div>
+      ) : null}
 
       <details className="mb-4 rounded-lg border border-rule bg-paper-raised p-4" open={!meta.symptom}>
         <summary className="min-h-11 cursor-pointer font-semibold">About this guide: title, symptom, tags</summary>
         <div className="mt-3 grid gap-4 md:grid-cols-2">
           <TextField label="Title" value={meta.title} onChange={(e) => d.change({ content, meta: { ...meta, title: e.target.value } }, 'meta.title')} />
-          <TextField label="Symptom it starts from" value={meta.symptom} onChange={(e) => d.change({ content, meta: { ...meta, symptom: e.target.value } }, 'meta.symptom')} hint="What the technician sees, in their words: “drips after the valve closes”." />
+          <TextField
+            label="Symptom it starts from"
+            value={meta.symptom}
+            onChange={(e) => d.change({ content, meta: { ...meta, symptom: e.target.value } }, 'meta.symptom')}
+            hint="What the technician sees, in their words: “drips after the valve closes”."
+          />
           <TextField className="md:col-span-2" label="Summary" value={meta.summary} onChange={(e) => d.change({ content, meta: { ...meta, summary: e.target.value } }, 'meta.summary')} />
-          {tags.data ? <div className="md:col-span-2"><TagPicker legend="Tags" tags={tags.data} value={meta.tags} onChange={(t) => d.change({ content, meta: { ...meta, tags: t } })} /></div> : null}
+          {tags.data ? (
+            <div className="md:col-span-2">
+              <TagPicker legend="Tags" tags={tags.data} value={meta.tags} onChange={(t) => d.change({ content, meta: { ...meta, tags: t } })} />
+            </div>
+          ) : null}
         </div>
       </details>
 
       <div className="grid gap-4 xl:grid-cols-[minmax(20rem,28rem)_1fr]">
         <section aria-label="Steps" className="space-y-3">
           <div className="flex flex-wrap items-center justify-between gap-2">
-          <div role="tablist" aria-label="Show the steps as" className="flex gap-1">
-            {(['outline', 'map'] as const).map((v) => (
-              <button key={v} role="tab" aria-selected={view === v} onClick={() => setView(v)} className={`min-h-11 rounded-md px-3 font-semibold ${view === v ? 'bg-amber-wash text-amber-deep' : 'text-ink-soft hover:bg-paper-sunk'}`}>
-                {v === 'outline' ? 'Outline' : 'Map'}
-              </button>
-            ))}
-          </div>
-          {guide.published ? (
-            <label className="flex min-h-11 items-center gap-2 text-sm">
-              <input type="checkbox" className="size-5" checked={showChanges} onChange={(e) => setShowChanges(e.target.checked)} />
-              Mark changes since version {guide.published.number}
-            </label>
-          ) : null}
+            <div role="tablist" aria-label="Show the steps as" className="flex gap-1">
+              {(['outline', 'map'] as const).map((v) => (
+                <button
+                  key={v}
+                  role="tab"
+                  aria-selected={view === v}
+                  onClick={() => setView(v)}
+                  className={`min-h-11 rounded-md px-3 font-semibold ${view === v ? 'bg-amber-wash text-amber-deep' : 'text-ink-soft hover:bg-paper-sunk'}`}
+                >
+                  {v === 'outline' ? 'Outline' : 'Map'}
+                </button>
+              ))}
+            </div>
+            {guide.published ? (
+              <label className="flex min-h-11 items-center gap-2 text-sm">
+                <input type="checkbox" className="size-5" checked={showChanges} onChange={(e) => setShowChanges(e.target.checked)} />
+                Mark changes since version {guide.published.number}
+              </label>
+            ) : null}
           </div>
           {showChanges && comparison.data && comparison.data.steps.removed.length ? (
-            <p className="text-sm text-ink-soft">Removed since version {guide.published?.number}: {comparison.data.steps.removed.map((r) => r.title || r.id).join('; ')}</p>
+            <p className="text-sm text-ink-soft">
+              Removed since version {guide.published?.number}: {comparison.data.steps.removed.map((r) => r.title || r.id).join('; ')}
+            </p>
           ) : null}
           <div className="rounded-lg border border-rule bg-paper-raised p-3">
             {view === 'outline' ? (
@@ -257,9 +324,13 @@ function Editor({ guide }: { guide: GuideDetail }) {
         {d.conflict ? (
           <div className="space-y-3">
             <p>{d.conflict.byName ?? 'Another author'} saved the draft while you were editing. Nothing has been overwritten.</p>
-            <p className="text-sm text-ink-soft">Their draft has {d.conflict.draft.content.steps.length} steps; yours has {content.steps.length}.</p>
+            <p className="text-sm text-ink-soft">
+              Their draft has {d.conflict.draft.content.steps.length} steps; yours has {content.steps.length}.
+            </p>
             <div className="flex flex-wrap justify-end gap-2">
-              <Button variant="secondary" onClick={() => void d.resolve('theirs')}>Use their draft</Button>
+              <Button variant="secondary" onClick={() => void d.resolve('theirs')}>
+                Use their draft
+              </Button>
               <Button onClick={() => void d.resolve('mine')}>Save mine over theirs</Button>
             </div>
           </div>
@@ -268,8 +339,12 @@ function Editor({ guide }: { guide: GuideDetail }) {
       <Dialog open={blocker.state === 'blocked'} title="Leave without saving?" onClose={() => blocker.reset?.()}>
         <p>Some changes have not reached the server yet. They are kept on this device and offered when you come back.</p>
         <div className="mt-4 flex justify-end gap-2">
-          <Button variant="secondary" onClick={() => blocker.reset?.()}>Stay</Button>
-          <Button variant="danger" onClick={() => blocker.proceed?.()}>Leave</Button>
+          <Button variant="secondary" onClick={() => blocker.reset?.()}>
+            Stay
+          </Button>
+          <Button variant="danger" onClick={() => blocker.proceed?.()}>
+            Leave
+          </Button>
         </div>
       </Dialog>
     </div>

@@ -62,8 +62,12 @@ function NewGuideDialog({ open, onClose }: { open: boolean; onClose: () => void 
         <TextField label="Symptom it starts from" {...form.register('symptom')} error={errors.symptom?.message} placeholder="Drips after the valve closes" autoFocus />
         <TextField label="Title" {...form.register('title')} error={errors.title?.message} placeholder="Drips after close on electric valves" />
         <div className="flex justify-end gap-2">
-          <Button variant="secondary" onClick={onClose}>Cancel</Button>
-          <Button type="submit" busy={create.isPending}>Create and edit</Button>
+          <Button variant="secondary" onClick={onClose}>
+            Cancel
+          </Button>
+          <Button type="submit" busy={create.isPending}>
+            Create and edit
+          </Button>
         </div>
       </form>
     </Dialog>
@@ -78,7 +82,9 @@ function ImportButton() {
   const [sent, setSent] = useState(0);
   return (
     <>
-      <Button variant="secondary" onClick={() => input.current?.click()} busy={imp.isPending}>Import a guide file</Button>
+      <Button variant="secondary" onClick={() => input.current?.click()} busy={imp.isPending}>
+        Import a guide file
+      </Button>
       <input
         ref={input}
         type="file"
@@ -98,13 +104,19 @@ function ImportButton() {
             return;
           }
           setSent(0);
-          imp.mutate({ file: json, onProgress: setSent }, {
-            onSuccess: (r) => {
-              showToast(`Imported “${r.guide.draft?.meta.title ?? 'guide'}” as a draft${r.causesAdded.length ? `; new causes: ${r.causesAdded.join(', ')}` : ''}`, 'ok');
-              navigate(`/guides/${r.guide.id}/edit`);
+          imp.mutate(
+            { file: json, onProgress: setSent },
+            {
+              onSuccess: (r) => {
+                showToast(`Imported “${r.guide.draft?.meta.title ?? 'guide'}” as a draft${r.causesAdded.length ? `; new causes: ${r.causesAdded.join(', ')}` : ''}`, 'ok');
+                navigate(`/guides/${r.guide.id}/edit`);
+              },
+              onError: (err) =>
+                setProblems(
+                  err instanceof ApiError && Array.isArray(err.details?.problems) ? (err.details!.problems as { path: string; message: string }[]) : [{ path: '(file)', message: errorMessage(err) }],
+                ),
             },
-            onError: (err) => setProblems(err instanceof ApiError && Array.isArray(err.details?.problems) ? (err.details!.problems as { path: string; message: string }[]) : [{ path: '(file)', message: errorMessage(err) }]),
-          });
+          );
         }}
       />
       <Dialog open={imp.isPending} title="Importing the guide" onClose={() => undefined}>
@@ -117,10 +129,14 @@ function ImportButton() {
         <p className="mb-2">Nothing was imported. Fix these in the file and try again:</p>
         <ul className="max-h-80 space-y-1 overflow-y-auto text-sm">
           {problems?.map((p, i) => (
-            <li key={i}><code className="rounded bg-paper-sunk px-1">{p.path}</code> {p.message}</li>
+            <li key={i}>
+              <code className="rounded bg-paper-sunk px-1">{p.path}</code> {p.message}
+            </li>
           ))}
         </ul>
-        <div className="mt-4 flex justify-end"><Button onClick={() => setProblems(null)}>Close</Button></div>
+        <div className="mt-4 flex justify-end">
+          <Button onClick={() => setProblems(null)}>Close</Button>
+        </div>
       </Dialog>
     </>
   );
@@ -160,30 +176,68 @@ export function GuideListPage() {
       {isAuthor ? (
         <div role="tablist" aria-label="Which guides" className="-mx-1 mb-4 flex gap-1 overflow-x-auto pb-1">
           {TABS.map((t) => (
-            <button key={t.key} role="tab" aria-selected={tab === t.key} onClick={() => set('tab', t.key === 'all' ? '' : t.key)} className={`min-h-11 shrink-0 rounded-md px-3 font-semibold ${tab === t.key ? 'bg-amber-wash text-amber-deep' : 'text-ink-soft hover:bg-paper-sunk'}`}>
+            <button
+              key={t.key}
+              role="tab"
+              aria-selected={tab === t.key}
+              onClick={() => set('tab', t.key === 'all' ? '' : t.key)}
+              className={`min-h-11 shrink-0 rounded-md px-3 font-semibold ${tab === t.key ? 'bg-amber-wash text-amber-deep' : 'text-ink-soft hover:bg-paper-sunk'}`}
+            >
               {t.label}
             </button>
           ))}
         </div>
       ) : null}
-      <form className="mb-4 flex flex-wrap items-end gap-3" onSubmit={(e) => { e.preventDefault(); set('q', q.trim()); }}>
+      <form
+        className="mb-4 flex flex-wrap items-end gap-3"
+        onSubmit={(e) => {
+          e.preventDefault();
+          set('q', q.trim());
+        }}
+      >
         <TextField label="Find a guide" type="search" className="min-w-56 flex-1" value={q} onChange={(e) => setQ(e.target.value)} placeholder="drips, coil, placement…" />
         <div>
-          <label htmlFor="guide-tag" className="mb-1 block text-sm font-semibold">Tag</label>
+          <label htmlFor="guide-tag" className="mb-1 block text-sm font-semibold">
+            Tag
+          </label>
           <select id="guide-tag" className="min-h-11 rounded-md border border-rule-strong bg-paper-raised px-3" value={tag} onChange={(e) => set('tag', e.target.value)}>
             <option value="">Any tag</option>
-            {tags.data?.map((t) => <option key={t.slug} value={t.slug}>{t.label}</option>)}
+            {tags.data?.map((t) => (
+              <option key={t.slug} value={t.slug}>
+                {t.label}
+              </option>
+            ))}
           </select>
         </div>
       </form>
       {list.isPending ? (
         <ListSkeleton label="Loading guides" />
       ) : list.isError ? (
-        <Notice tone="error" title="Guides could not be loaded">{errorMessage(list.error)}</Notice>
+        <Notice tone="error" title="Guides could not be loaded">
+          {errorMessage(list.error)}
+        </Notice>
       ) : list.data.length === 0 ? (
         <EmptyState
           title={params.get('q') || tag ? 'No guide matches' : 'No guides here'}
-          action={params.get('q') || tag ? <Button variant="secondary" onClick={() => { setQ(''); setParams(new URLSearchParams(tab === 'all' ? {} : { tab }), { replace: true }); }}>Clear the search</Button> : isAuthor ? <Button onClick={() => setCreating(true)}>New guide</Button> : <ButtonLink to="/search" variant="secondary">Search articles instead</ButtonLink>}
+          action={
+            params.get('q') || tag ? (
+              <Button
+                variant="secondary"
+                onClick={() => {
+                  setQ('');
+                  setParams(new URLSearchParams(tab === 'all' ? {} : { tab }), { replace: true });
+                }}
+              >
+                Clear the search
+              </Button>
+            ) : isAuthor ? (
+              <Button onClick={() => setCreating(true)}>New guide</Button>
+            ) : (
+              <ButtonLink to="/search" variant="secondary">
+                Search articles instead
+              </ButtonLink>
+            )
+          }
         >
           {params.get('q') || tag
             ? 'Try fewer or other words, or another tag.'
@@ -200,7 +254,11 @@ export function GuideListPage() {
                 <div className="flex flex-wrap items-start justify-between gap-2">
                   <div>
                     <p className="text-sm font-semibold text-amber-deep">{g.symptom}</p>
-                    <h2 className="text-lg font-semibold"><Link to={`/guides/${g.id}`} className="inline-flex min-h-11 items-center hover:underline">{g.title}</Link></h2>
+                    <h2 className="text-lg font-semibold">
+                      <Link to={`/guides/${g.id}`} className="inline-flex min-h-11 items-center hover:underline">
+                        {g.title}
+                      </Link>
+                    </h2>
                   </div>
                   {isAuthor ? <span className={`rounded px-2 py-0.5 text-xs font-semibold ${s.tone}`}>{s.text}</span> : null}
                 </div>
@@ -209,8 +267,17 @@ export function GuideListPage() {
                   <TagList slugs={g.tags} tags={tags.data ?? []} />
                   {isAuthor && g.errorCount ? <span className="font-semibold text-danger-deep">{g.errorCount} to fix</span> : null}
                   {isAuthor && g.openFlagCount ? <span className="text-amber-deep">⚑ {g.openFlagCount} flagged steps</span> : null}
-                  {isAuthor && g.walksNotFixed + g.walksFixedByOther ? <span>{g.walksNotFixed} not fixed · {g.walksFixedByOther} fixed another way</span> : null}
-                  {isAuthor && g.draftUpdatedAt ? <span>Changed {formatDate(g.draftUpdatedAt)}{g.draftUpdatedByName ? ` by ${g.draftUpdatedByName}` : ''}</span> : null}
+                  {isAuthor && g.walksNotFixed + g.walksFixedByOther ? (
+                    <span>
+                      {g.walksNotFixed} not fixed · {g.walksFixedByOther} fixed another way
+                    </span>
+                  ) : null}
+                  {isAuthor && g.draftUpdatedAt ? (
+                    <span>
+                      Changed {formatDate(g.draftUpdatedAt)}
+                      {g.draftUpdatedByName ? ` by ${g.draftUpdatedByName}` : ''}
+                    </span>
+                  ) : null}
                 </div>
                 {!isAuthor && g.publishedVersion ? (
                   <div className="mt-3">

@@ -16,9 +16,7 @@ type StepNodeData = { step: DraftStep; start: boolean; problems: number; selecte
 const StepNode = memo(function StepNode({ data }: NodeProps<Node<StepNodeData>>) {
   const { step, start, problems, selected } = data;
   return (
-    <div
-      className={`w-[220px] rounded-md border-2 bg-paper-raised px-2 py-1.5 text-left text-sm shadow-sm ${selected ? 'border-amber' : problems ? 'border-danger' : 'border-rule-strong'}`}
-    >
+    <div className={`w-[220px] rounded-md border-2 bg-paper-raised px-2 py-1.5 text-left text-sm shadow-sm ${selected ? 'border-amber' : problems ? 'border-danger' : 'border-rule-strong'}`}>
       <Handle type="target" position={Position.Top} className="!bg-rule-strong" />
       <div className="flex items-center gap-1">
         <StepKindBadge kind={step.kind} />

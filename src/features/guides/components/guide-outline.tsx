@@ -60,7 +60,15 @@ export function GuideOutline({
       return actions.move(row.parentId, row.branchIndex, e.key === 'ArrowUp' ? -1 : 1);
     }
     if (e.key === 'ArrowLeft') return (e.preventDefault(), setCollapsed((c) => new Set(c).add(row.stepId)));
-    if (e.key === 'ArrowRight') return (e.preventDefault(), setCollapsed((c) => { const n = new Set(c); n.delete(row.stepId); return n; }));
+    if (e.key === 'ArrowRight')
+      return (
+        e.preventDefault(),
+        setCollapsed((c) => {
+          const n = new Set(c);
+          n.delete(row.stepId);
+          return n;
+        })
+      );
     if (e.key === 'Tab' && !e.shiftKey) return (e.preventDefault(), actions.addChild(row.stepId));
     if (e.key === 'Enter') return (e.preventDefault(), actions.addSibling(row.parentId));
     if (e.key === 'Delete' || e.key === 'Backspace') {
@@ -75,7 +83,13 @@ export function GuideOutline({
     <div>
       <label className="mb-2 block">
         <span className="sr-only">Find a step</span>
-        <input type="search" value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="Find a step…" className="min-h-11 w-full rounded-md border border-rule-strong bg-paper-raised px-3" />
+        <input
+          type="search"
+          value={filter}
+          onChange={(e) => setFilter(e.target.value)}
+          placeholder="Find a step…"
+          className="min-h-11 w-full rounded-md border border-rule-strong bg-paper-raised px-3"
+        />
       </label>
       <p id="outline-keys" className="mb-2 text-xs text-ink-soft">
         Keys: Tab adds a next step, Enter adds a step beside it, A M T F H set Ask, Measure, Try, Finding, Hand-off; Alt+↑↓ reorder; ←→ fold; Delete removes.
@@ -113,7 +127,11 @@ export function GuideOutline({
                     {changes.get(s.id) === 'added' ? 'new' : 'changed'}
                   </span>
                 ) : null}
-                {flags[s.id] ? <span className="rounded bg-amber-wash px-1 text-xs text-amber-deep" title="Technicians flagged this step">⚑ {flags[s.id]}</span> : null}
+                {flags[s.id] ? (
+                  <span className="rounded bg-amber-wash px-1 text-xs text-amber-deep" title="Technicians flagged this step">
+                    ⚑ {flags[s.id]}
+                  </span>
+                ) : null}
                 {nProblems ? <span className="rounded bg-danger-wash px-1 text-xs font-semibold text-danger-deep">{nProblems} to fix</span> : null}
               </div>
             </li>

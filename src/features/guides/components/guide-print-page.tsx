@@ -21,7 +21,11 @@ export function GuidePrintPage() {
   if (guide.isPending) return <LoadingBlock label="Loading the guide" />;
   if (guide.isError) {
     if (guide.error instanceof ApiError && guide.error.status === 404) return <NotFoundPage />;
-    return <Notice tone="error" title="The guide could not be loaded">{errorMessage(guide.error)}</Notice>;
+    return (
+      <Notice tone="error" title="The guide could not be loaded">
+        {errorMessage(guide.error)}
+      </Notice>
+    );
   }
   const g = guide.data;
   const v = g.published;
@@ -31,7 +35,9 @@ export function GuidePrintPage() {
         <Notice tone="info" title="This guide has no published version to print yet">
           Only published versions are printed, so the binder never holds a step that was not reviewed.
         </Notice>
-        <Link to={`/guides/${g.id}`} className="font-semibold text-amber-deep underline">Back to the guide</Link>
+        <Link to={`/guides/${g.id}`} className="font-semibold text-amber-deep underline">
+          Back to the guide
+        </Link>
       </div>
     );
   }
@@ -52,7 +58,9 @@ export function GuidePrintPage() {
   return (
     <article className="guide-print mx-auto max-w-3xl" aria-labelledby="print-title">
       <div className="no-print mb-4 flex flex-wrap items-center gap-3">
-        <Link to={`/guides/${g.id}`} className="inline-flex min-h-11 items-center font-semibold text-amber-deep underline">Back to the guide</Link>
+        <Link to={`/guides/${g.id}`} className="inline-flex min-h-11 items-center font-semibold text-amber-deep underline">
+          Back to the guide
+        </Link>
         <Button onClick={() => window.print()}>Print</Button>
         <p className="text-sm text-ink-soft">Fits A4 and US Letter; each step stays on one page.</p>
       </div>
@@ -60,7 +68,9 @@ export function GuidePrintPage() {
       {/* Not a <header>: the print rules hide the app's header element. */}
       <div className="print-head border-b-2 border-ink pb-3">
         <p className="font-semibold text-amber-deep">{v.meta.symptom}</p>
-        <h1 id="print-title" className="text-3xl font-semibold">{v.meta.title}</h1>
+        <h1 id="print-title" className="text-3xl font-semibold">
+          {v.meta.title}
+        </h1>
         {v.meta.summary ? <p className="mt-1 text-ink-soft">{v.meta.summary}</p> : null}
         <p className="mt-2 text-sm" data-testid="print-version">
           Version {v.number}
@@ -69,10 +79,8 @@ export function GuidePrintPage() {
       </div>
 
       <p className="print-safety mt-3 rounded-md border-2 border-danger p-3 text-sm font-semibold text-danger-deep" role="note">
-        Safety: this guide supports trained people and does not replace them. Follow local codes, your site&rsquo;s rules, the
-        equipment maker&rsquo;s manual and the fluid&rsquo;s safety data sheet. Lock out and tag out every energy source and
-        relieve air and fluid pressure before opening a valve. A paper copy can be out of date: check the version against
-        Beadpath.
+        Safety: this guide supports trained people and does not replace them. Follow local codes, your site&rsquo;s rules, the equipment maker&rsquo;s manual and the fluid&rsquo;s safety data sheet.
+        Lock out and tag out every energy source and relieve air and fluid pressure before opening a valve. A paper copy can be out of date: check the version against Beadpath.
       </p>
 
       <ol className="mt-4 space-y-3" aria-label="Steps in outline order">
@@ -136,10 +144,16 @@ function PrintStep({ step, n, to, causeLabel, loose }: { step: DraftStep; n: num
 
       {step.kind === 'try' ? (
         <div className="mt-2 text-sm">
-          <p><span className="font-semibold">Try:</span> {step.action}</p>
+          <p>
+            <span className="font-semibold">Try:</span> {step.action}
+          </p>
           <ul className="mt-1 list-disc pl-6">
-            <li><span className="font-semibold">Fixed</span>: {step.fixedNext ? to(step.fixedNext) : 'the walk ends, fixed'}</li>
-            <li><span className="font-semibold">Not fixed</span>: {to(step.notFixedNext)}</li>
+            <li>
+              <span className="font-semibold">Fixed</span>: {step.fixedNext ? to(step.fixedNext) : 'the walk ends, fixed'}
+            </li>
+            <li>
+              <span className="font-semibold">Not fixed</span>: {to(step.notFixedNext)}
+            </li>
           </ul>
         </div>
       ) : null}
@@ -152,22 +166,31 @@ function PrintStep({ step, n, to, causeLabel, loose }: { step: DraftStep; n: num
           </p>
           <p className="font-semibold">Fix:</p>
           <ol className="list-decimal pl-6">
-            {step.remedy.map((r, i) => <li key={i}>{r}</li>)}
+            {step.remedy.map((r, i) => (
+              <li key={i}>{r}</li>
+            ))}
           </ol>
           {step.parts.length ? (
             <p>
-              <span className="font-semibold">Parts:</span>{' '}
-              {step.parts.map((p) => `${formatInteger(p.quantity)} × ${p.name}${p.partNumber ? ` (${p.partNumber})` : ''}`).join('; ')}
+              <span className="font-semibold">Parts:</span> {step.parts.map((p) => `${formatInteger(p.quantity)} × ${p.name}${p.partNumber ? ` (${p.partNumber})` : ''}`).join('; ')}
             </p>
           ) : null}
-          {step.typicalMinutes ? <p><span className="font-semibold">Typical time:</span> {formatInteger(step.typicalMinutes)} min</p> : null}
+          {step.typicalMinutes ? (
+            <p>
+              <span className="font-semibold">Typical time:</span> {formatInteger(step.typicalMinutes)} min
+            </p>
+          ) : null}
         </div>
       ) : null}
 
       {step.kind === 'handoff' ? (
         <div className="mt-2 text-sm">
-          <p><span className="font-semibold">Call:</span> {step.contact}</p>
-          <p><span className="font-semibold">Tell them:</span> {step.message}</p>
+          <p>
+            <span className="font-semibold">Call:</span> {step.contact}
+          </p>
+          <p>
+            <span className="font-semibold">Tell them:</span> {step.message}
+          </p>
         </div>
       ) : null}
     </li>

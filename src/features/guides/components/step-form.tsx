@@ -19,7 +19,9 @@ function Field({ label, children, hint }: { label: string; children: (id: string
   const id = useId();
   return (
     <div>
-      <label htmlFor={id} className="mb-1 block text-sm font-semibold">{label}</label>
+      <label htmlFor={id} className="mb-1 block text-sm font-semibold">
+        {label}
+      </label>
       {children(id)}
       {hint ? <p className="mt-1 text-xs text-ink-soft">{hint}</p> : null}
     </div>
@@ -79,8 +81,16 @@ export function StepForm(props: StepFormProps) {
       <div className="flex flex-wrap items-center gap-2">
         <StepKindBadge kind={step.kind} />
         <span className="text-sm text-ink-soft">Step {step.id}</span>
-        {props.isStart ? <span className="rounded bg-paper-sunk px-1.5 text-xs">start</span> : <Button variant="quiet" className="!min-h-9 text-sm" onClick={props.onMakeStart}>Make this the start</Button>}
-        <Button variant="quiet" className="!min-h-9 ml-auto text-sm text-danger" onClick={() => window.confirm('Delete this step?') && props.onDelete()}>Delete step</Button>
+        {props.isStart ? (
+          <span className="rounded bg-paper-sunk px-1.5 text-xs">start</span>
+        ) : (
+          <Button variant="quiet" className="!min-h-9 text-sm" onClick={props.onMakeStart}>
+            Make this the start
+          </Button>
+        )}
+        <Button variant="quiet" className="!min-h-9 ml-auto text-sm text-danger" onClick={() => window.confirm('Delete this step?') && props.onDelete()}>
+          Delete step
+        </Button>
       </div>
       {props.problems.length ? (
         <ul className="space-y-1 rounded-md border-l-4 border-danger bg-danger-wash px-3 py-2 text-sm" aria-label="To fix in this step">
@@ -94,7 +104,9 @@ export function StepForm(props: StepFormProps) {
           <p className="font-semibold">Technicians flagged this step</p>
           <ul className="mt-1 space-y-1">
             {props.flags.map((f) => (
-              <li key={f.id}>“{f.comment}” — {f.userName ?? 'someone'}, {formatDate(f.createdAt)}</li>
+              <li key={f.id}>
+                “{f.comment}” — {f.userName ?? 'someone'}, {formatDate(f.createdAt)}
+              </li>
             ))}
           </ul>
         </div>
@@ -104,14 +116,32 @@ export function StepForm(props: StepFormProps) {
         <legend className="mb-1 text-sm font-semibold">Kind of step</legend>
         <div className="flex flex-wrap gap-1">
           {STEP_KINDS.map((k) => (
-            <button key={k} type="button" aria-pressed={step.kind === k} onClick={() => props.onKind(k)} className={`min-h-11 rounded-md border px-2 ${step.kind === k ? 'border-amber bg-amber-wash' : 'border-rule-strong bg-paper-raised'}`}>
+            <button
+              key={k}
+              type="button"
+              aria-pressed={step.kind === k}
+              onClick={() => props.onKind(k)}
+              className={`min-h-11 rounded-md border px-2 ${step.kind === k ? 'border-amber bg-amber-wash' : 'border-rule-strong bg-paper-raised'}`}
+            >
               <StepKindBadge kind={k} />
             </button>
           ))}
         </div>
       </fieldset>
 
-      <Field label={step.kind === 'ask' ? 'Question' : step.kind === 'measure' ? 'What to measure' : step.kind === 'try' ? 'What to try (short)' : step.kind === 'finding' ? 'Finding (short)' : 'Hand-off (short)'}>
+      <Field
+        label={
+          step.kind === 'ask'
+            ? 'Question'
+            : step.kind === 'measure'
+              ? 'What to measure'
+              : step.kind === 'try'
+                ? 'What to try (short)'
+                : step.kind === 'finding'
+                  ? 'Finding (short)'
+                  : 'Hand-off (short)'
+        }
+      >
         {(id) => <input id={id} className={inputClass} value={step.title} maxLength={200} onChange={(e) => set({ title: e.target.value }, 'title')} />}
       </Field>
 
@@ -120,12 +150,42 @@ export function StepForm(props: StepFormProps) {
           <legend className="text-sm font-semibold">Answers</legend>
           {step.choices.map((c, i) => (
             <div key={c.id} className="grid grid-cols-[1fr_1fr_auto] gap-2">
-              <input aria-label={`Answer ${i + 1}`} className={inputClass} value={c.label} onChange={(e) => set({ choices: step.choices.map((x, k) => (k === i ? { ...x, label: e.target.value } : x)) }, `choice.${i}`)} />
-              {renderNext({ label: `Next step after “${c.label || `answer ${i + 1}`}”`, value: c.next, pick: (v) => ({ choices: step.choices.map((x, k) => (k === i ? { ...x, next: v ?? '' } : x)) }) })}
-              <Button variant="quiet" aria-label={`Remove answer ${i + 1}`} onClick={() => set({ choices: step.choices.filter((_, k) => k !== i) })}>✕</Button>
+              <input
+                aria-label={`Answer ${i + 1}`}
+                className={inputClass}
+                value={c.label}
+                onChange={(e) => set({ choices: step.choices.map((x, k) => (k === i ? { ...x, label: e.target.value } : x)) }, `choice.${i}`)}
+              />
+              {renderNext({
+                label: `Next step after “${c.label || `answer ${i + 1}`}”`,
+                value: c.next,
+                pick: (v) => ({ choices: step.choices.map((x, k) => (k === i ? { ...x, next: v ?? '' } : x)) }),
+              })}
+              <Button variant="quiet" aria-label={`Remove answer ${i + 1}`} onClick={() => set({ choices: step.choices.filter((_, k) => k !== i) })}>
+                ✕
+              </Button>
             </div>
           ))}
-          <Button variant="secondary" onClick={() => set({ choices: [...step.choices, { id: freshId('c', step.choices.map((x) => x.id)), label: '', next: '' }] })}>Add an answer</Button>
+          <Button
+            variant="secondary"
+            onClick={() =>
+              set({
+                choices: [
+                  ...step.choices,
+                  {
+                    id: freshId(
+                      'c',
+                      step.choices.map((x) => x.id),
+                    ),
+                    label: '',
+                    next: '',
+                  },
+                ],
+              })
+            }
+          >
+            Add an answer
+          </Button>
         </fieldset>
       ) : null}
 
@@ -135,8 +195,10 @@ export function StepForm(props: StepFormProps) {
         <>
           <Field label="What to do">{(id) => <textarea id={id} className={inputClass} rows={3} value={step.action} onChange={(e) => set({ action: e.target.value }, 'action')} />}</Field>
           <div className="grid gap-3 sm:grid-cols-2">
-            <Field label="When it fixed the fault">{() => renderNext({ label: "Next step when fixed", value: step.fixedNext, allowEnd: "The walk ends: fixed", pick: (v) => ({ fixedNext: v }) })}</Field>
-            <Field label="When it did not">{() => renderNext({ label: "Next step when not fixed", value: step.notFixedNext, pick: (v) => ({ notFixedNext: v ?? '' }) })}</Field>
+            <Field label="When it fixed the fault">
+              {() => renderNext({ label: 'Next step when fixed', value: step.fixedNext, allowEnd: 'The walk ends: fixed', pick: (v) => ({ fixedNext: v }) })}
+            </Field>
+            <Field label="When it did not">{() => renderNext({ label: 'Next step when not fixed', value: step.notFixedNext, pick: (v) => ({ notFixedNext: v ?? '' }) })}</Field>
           </div>
         </>
       ) : null}
@@ -148,7 +210,9 @@ export function StepForm(props: StepFormProps) {
               <select id={id} className={inputClass} value={step.causeCode} onChange={(e) => set({ causeCode: e.target.value })}>
                 <option value="">— choose a cause —</option>
                 {props.causes.map((c) => (
-                  <option key={c.code} value={c.code}>{c.label}</option>
+                  <option key={c.code} value={c.code}>
+                    {c.label}
+                  </option>
                 ))}
               </select>
             )}
@@ -161,16 +225,47 @@ export function StepForm(props: StepFormProps) {
             <legend className="text-sm font-semibold">Parts to have ready</legend>
             {step.parts.map((p, i) => (
               <div key={i} className="grid grid-cols-[2fr_1fr_5rem_auto] gap-2">
-                <input aria-label={`Part ${i + 1} name`} className={inputClass} value={p.name} onChange={(e) => set({ parts: step.parts.map((x, k) => (k === i ? { ...x, name: e.target.value } : x)) }, `part.${i}`)} />
-                <input aria-label={`Part ${i + 1} number`} className={inputClass} placeholder="Part no." value={p.partNumber ?? ''} onChange={(e) => set({ parts: step.parts.map((x, k) => (k === i ? { ...x, partNumber: e.target.value || undefined } : x)) }, `partno.${i}`)} />
-                <input aria-label={`Part ${i + 1} quantity`} className={inputClass} type="number" min={1} value={p.quantity} onChange={(e) => set({ parts: step.parts.map((x, k) => (k === i ? { ...x, quantity: Math.max(1, Number(e.target.value) || 1) } : x)) })} />
-                <Button variant="quiet" aria-label={`Remove part ${i + 1}`} onClick={() => set({ parts: step.parts.filter((_, k) => k !== i) })}>✕</Button>
+                <input
+                  aria-label={`Part ${i + 1} name`}
+                  className={inputClass}
+                  value={p.name}
+                  onChange={(e) => set({ parts: step.parts.map((x, k) => (k === i ? { ...x, name: e.target.value } : x)) }, `part.${i}`)}
+                />
+                <input
+                  aria-label={`Part ${i + 1} number`}
+                  className={inputClass}
+                  placeholder="Part no."
+                  value={p.partNumber ?? ''}
+                  onChange={(e) => set({ parts: step.parts.map((x, k) => (k === i ? { ...x, partNumber: e.target.value || undefined } : x)) }, `partno.${i}`)}
+                />
+                <input
+                  aria-label={`Part ${i + 1} quantity`}
+                  className={inputClass}
+                  type="number"
+                  min={1}
+                  value={p.quantity}
+                  onChange={(e) => set({ parts: step.parts.map((x, k) => (k === i ? { ...x, quantity: Math.max(1, Number(e.target.value) || 1) } : x)) })}
+                />
+                <Button variant="quiet" aria-label={`Remove part ${i + 1}`} onClick={() => set({ parts: step.parts.filter((_, k) => k !== i) })}>
+                  ✕
+                </Button>
               </div>
             ))}
-            <Button variant="secondary" onClick={() => set({ parts: [...step.parts, { name: '', quantity: 1 }] })}>Add a part</Button>
+            <Button variant="secondary" onClick={() => set({ parts: [...step.parts, { name: '', quantity: 1 }] })}>
+              Add a part
+            </Button>
           </fieldset>
           <Field label="Typical time (minutes)">
-            {(id) => <input id={id} type="number" min={1} className={`${inputClass} w-32`} value={step.typicalMinutes ?? ''} onChange={(e) => set({ typicalMinutes: e.target.value ? Math.round(Number(e.target.value)) : undefined })} />}
+            {(id) => (
+              <input
+                id={id}
+                type="number"
+                min={1}
+                className={`${inputClass} w-32`}
+                value={step.typicalMinutes ?? ''}
+                onChange={(e) => set({ typicalMinutes: e.target.value ? Math.round(Number(e.target.value)) : undefined })}
+              />
+            )}
           </Field>
         </>
       ) : null}
@@ -187,18 +282,59 @@ export function StepForm(props: StepFormProps) {
         {step.cautions.map((c, i) => (
           <div key={c.id} className="space-y-2 rounded-md border-2 border-l-8 border-danger bg-danger-wash p-3">
             <div className="flex gap-2">
-              <select aria-label={`Caution ${i + 1} hazard`} className={inputClass} value={c.hazard} onChange={(e) => set({ cautions: step.cautions.map((x, k) => (k === i ? { ...x, hazard: e.target.value as Hazard } : x)) })}>
+              <select
+                aria-label={`Caution ${i + 1} hazard`}
+                className={inputClass}
+                value={c.hazard}
+                onChange={(e) => set({ cautions: step.cautions.map((x, k) => (k === i ? { ...x, hazard: e.target.value as Hazard } : x)) })}
+              >
                 {HAZARD_KEYS.map((h) => (
-                  <option key={h} value={h}>{HAZARDS[h]}</option>
+                  <option key={h} value={h}>
+                    {HAZARDS[h]}
+                  </option>
                 ))}
               </select>
-              <Button variant="quiet" aria-label={`Remove caution ${i + 1}`} onClick={() => set({ cautions: step.cautions.filter((_, k) => k !== i) })}>✕</Button>
+              <Button variant="quiet" aria-label={`Remove caution ${i + 1}`} onClick={() => set({ cautions: step.cautions.filter((_, k) => k !== i) })}>
+                ✕
+              </Button>
             </div>
-            <textarea aria-label={`Caution ${i + 1}: the danger`} placeholder="The danger, e.g. fluid at 60 bar can inject through skin" className={inputClass} rows={2} value={c.text} onChange={(e) => set({ cautions: step.cautions.map((x, k) => (k === i ? { ...x, text: e.target.value } : x)) }, `caution.${i}.text`)} />
-            <textarea aria-label={`Caution ${i + 1}: what to do`} placeholder="What to do first, e.g. lock out the pump and open the relief valve" className={inputClass} rows={2} value={c.action} onChange={(e) => set({ cautions: step.cautions.map((x, k) => (k === i ? { ...x, action: e.target.value } : x)) }, `caution.${i}.action`)} />
+            <textarea
+              aria-label={`Caution ${i + 1}: the danger`}
+              placeholder="The danger, e.g. fluid at 60 bar can inject through skin"
+              className={inputClass}
+              rows={2}
+              value={c.text}
+              onChange={(e) => set({ cautions: step.cautions.map((x, k) => (k === i ? { ...x, text: e.target.value } : x)) }, `caution.${i}.text`)}
+            />
+            <textarea
+              aria-label={`Caution ${i + 1}: what to do`}
+              placeholder="What to do first, e.g. lock out the pump and open the relief valve"
+              className={inputClass}
+              rows={2}
+              value={c.action}
+              onChange={(e) => set({ cautions: step.cautions.map((x, k) => (k === i ? { ...x, action: e.target.value } : x)) }, `caution.${i}.action`)}
+            />
           </div>
         ))}
-        <Button variant="secondary" onClick={() => set({ cautions: [...step.cautions, { id: freshId('k', step.cautions.map((x) => x.id)), hazard: 'fluid-pressure', text: '', action: '' }] })}>
+        <Button
+          variant="secondary"
+          onClick={() =>
+            set({
+              cautions: [
+                ...step.cautions,
+                {
+                  id: freshId(
+                    'k',
+                    step.cautions.map((x) => x.id),
+                  ),
+                  hazard: 'fluid-pressure',
+                  text: '',
+                  action: '',
+                },
+              ],
+            })
+          }
+        >
           Add a caution
         </Button>
       </fieldset>
@@ -213,7 +349,9 @@ export function StepForm(props: StepFormProps) {
             onChange={(e) => set({ articleIds: Array.from(e.target.selectedOptions).map((o) => Number(o.value)) })}
           >
             {props.articles.map((a) => (
-              <option key={a.id} value={a.id}>{a.title}</option>
+              <option key={a.id} value={a.id}>
+                {a.title}
+              </option>
             ))}
           </select>
         )}
@@ -257,7 +395,17 @@ function MeasureFields({
   return (
     <div className="space-y-4">
       <div className="grid gap-3 sm:grid-cols-3">
-        <Field label="Reading label">{(id) => <input id={id} className={inputClass} value={step.reading.label} placeholder="Coil resistance" onChange={(e) => set({ reading: { ...step.reading, label: e.target.value } }, 'reading.label')} />}</Field>
+        <Field label="Reading label">
+          {(id) => (
+            <input
+              id={id}
+              className={inputClass}
+              value={step.reading.label}
+              placeholder="Coil resistance"
+              onChange={(e) => set({ reading: { ...step.reading, label: e.target.value } }, 'reading.label')}
+            />
+          )}
+        </Field>
         <Field label="Quantity">
           {(id) => (
             <select
@@ -271,16 +419,25 @@ function MeasureFields({
               }}
             >
               {QUANTITY_KINDS.map((k) => (
-                <option key={k} value={k}>{KIND_LABELS[k]}</option>
+                <option key={k} value={k}>
+                  {KIND_LABELS[k]}
+                </option>
               ))}
             </select>
           )}
         </Field>
         <Field label="Unit asked for">
           {(id) => (
-            <select id={id} className={inputClass} value={step.reading.unit} onChange={(e) => set({ reading: { ...step.reading, unit: e.target.value }, ...(step.calculator ? {} : { bandUnit: e.target.value }) })}>
+            <select
+              id={id}
+              className={inputClass}
+              value={step.reading.unit}
+              onChange={(e) => set({ reading: { ...step.reading, unit: e.target.value }, ...(step.calculator ? {} : { bandUnit: e.target.value }) })}
+            >
               {UNITS[step.reading.kind].map((u) => (
-                <option key={u.unit} value={u.unit}>{u.label || u.unit}</option>
+                <option key={u.unit} value={u.unit}>
+                  {u.label || u.unit}
+                </option>
               ))}
             </select>
           )}
@@ -303,7 +460,9 @@ function MeasureFields({
             >
               <option value="">The reading itself</option>
               {calculators.map((c) => (
-                <option key={c.id} value={c.id}>{c.title}</option>
+                <option key={c.id} value={c.id}>
+                  {c.title}
+                </option>
               ))}
             </select>
           )}
@@ -312,10 +471,17 @@ function MeasureFields({
           <>
             <Field label="The reading fills">
               {(id) => (
-                <select id={id} className={inputClass} value={step.calculator?.readingInput ?? ''} onChange={(e) => set({ calculator: { ...step.calculator!, readingInput: e.target.value || undefined } })}>
+                <select
+                  id={id}
+                  className={inputClass}
+                  value={step.calculator?.readingInput ?? ''}
+                  onChange={(e) => set({ calculator: { ...step.calculator!, readingInput: e.target.value || undefined } })}
+                >
                   <option value="">(nothing: only recorded)</option>
                   {calc.inputs.map((i) => (
-                    <option key={i.name} value={i.name}>{i.label}</option>
+                    <option key={i.name} value={i.name}>
+                      {i.label}
+                    </option>
                   ))}
                 </select>
               )}
@@ -331,9 +497,13 @@ function MeasureFields({
                     set({ calculator: { ...step.calculator!, output: e.target.value }, bandUnit: o?.unit ?? step.bandUnit });
                   }}
                 >
-                  {calc.outputs.filter((o) => o.kind !== 'verdict').map((o) => (
-                    <option key={o.name} value={o.name}>{o.label}</option>
-                  ))}
+                  {calc.outputs
+                    .filter((o) => o.kind !== 'verdict')
+                    .map((o) => (
+                      <option key={o.name} value={o.name}>
+                        {o.label}
+                      </option>
+                    ))}
                 </select>
               )}
             </Field>
@@ -361,7 +531,9 @@ function MeasureFields({
                       <select className={inputClass} value={typeof fixed === 'string' ? fixed : ''} onChange={(e) => setFixed(e.target.value || undefined)}>
                         <option value="">Asked on site</option>
                         {i.choices?.map((c) => (
-                          <option key={c.value} value={c.value}>{c.label}</option>
+                          <option key={c.value} value={c.value}>
+                            {c.label}
+                          </option>
                         ))}
                       </select>
                     </label>
@@ -373,7 +545,13 @@ function MeasureFields({
                   <label key={i.name} className="text-sm">
                     {i.label}
                     <span className="flex gap-1">
-                      <input className={inputClass} inputMode="decimal" placeholder="Asked on site" value={q ? String(q.value) : ''} onChange={(e) => setFixed(e.target.value.trim() === '' || !Number.isFinite(Number(e.target.value)) ? undefined : { value: Number(e.target.value), unit })} />
+                      <input
+                        className={inputClass}
+                        inputMode="decimal"
+                        placeholder="Asked on site"
+                        value={q ? String(q.value) : ''}
+                        onChange={(e) => setFixed(e.target.value.trim() === '' || !Number.isFinite(Number(e.target.value)) ? undefined : { value: Number(e.target.value), unit })}
+                      />
                       <span className="flex min-w-10 items-center text-ink-soft">{unitLabel(unit, kindOfUnit(unit))}</span>
                     </span>
                   </label>
@@ -387,7 +565,9 @@ function MeasureFields({
           Bands in{' '}
           <select aria-label="Band unit" className="rounded border border-rule-strong bg-paper-raised px-1" value={step.bandUnit} onChange={(e) => set({ bandUnit: e.target.value })}>
             {bandUnits.map((u) => (
-              <option key={u.unit} value={u.unit}>{u.label || u.unit}</option>
+              <option key={u.unit} value={u.unit}>
+                {u.label || u.unit}
+              </option>
             ))}
           </select>{' '}
           (empty limit = no limit; together they must cover every value once)
@@ -398,14 +578,34 @@ function MeasureFields({
             <div key={b.id} className="space-y-2 rounded-md border border-rule p-2">
               <div className="grid grid-cols-[1fr_auto] gap-2">
                 <input aria-label={`Band ${i + 1} name`} className={inputClass} value={b.label} onChange={(e) => put({ label: e.target.value }, `band.${i}.label`)} />
-                <Button variant="quiet" aria-label={`Remove band ${i + 1}`} onClick={() => set({ bands: step.bands.filter((_, k) => k !== i) })}>✕</Button>
+                <Button variant="quiet" aria-label={`Remove band ${i + 1}`} onClick={() => set({ bands: step.bands.filter((_, k) => k !== i) })}>
+                  ✕
+                </Button>
               </div>
               <div className="flex flex-wrap items-center gap-2 text-sm">
-                <label className="flex items-center gap-1"><input type="checkbox" checked={b.minInclusive} onChange={(e) => put({ minInclusive: e.target.checked })} /> from (incl.)</label>
-                <input aria-label={`Band ${i + 1} lower limit`} className={`${inputClass} w-28`} inputMode="decimal" value={b.min ?? ''} placeholder="−∞" onChange={(e) => put({ min: num(e.target.value) }, `band.${i}.min`)} />
+                <label className="flex items-center gap-1">
+                  <input type="checkbox" checked={b.minInclusive} onChange={(e) => put({ minInclusive: e.target.checked })} /> from (incl.)
+                </label>
+                <input
+                  aria-label={`Band ${i + 1} lower limit`}
+                  className={`${inputClass} w-28`}
+                  inputMode="decimal"
+                  value={b.min ?? ''}
+                  placeholder="−∞"
+                  onChange={(e) => put({ min: num(e.target.value) }, `band.${i}.min`)}
+                />
                 <span>to</span>
-                <input aria-label={`Band ${i + 1} upper limit`} className={`${inputClass} w-28`} inputMode="decimal" value={b.max ?? ''} placeholder="+∞" onChange={(e) => put({ max: num(e.target.value) }, `band.${i}.max`)} />
-                <label className="flex items-center gap-1"><input type="checkbox" checked={b.maxInclusive} onChange={(e) => put({ maxInclusive: e.target.checked })} /> (incl.)</label>
+                <input
+                  aria-label={`Band ${i + 1} upper limit`}
+                  className={`${inputClass} w-28`}
+                  inputMode="decimal"
+                  value={b.max ?? ''}
+                  placeholder="+∞"
+                  onChange={(e) => put({ max: num(e.target.value) }, `band.${i}.max`)}
+                />
+                <label className="flex items-center gap-1">
+                  <input type="checkbox" checked={b.maxInclusive} onChange={(e) => put({ maxInclusive: e.target.checked })} /> (incl.)
+                </label>
                 <span className="text-ink-soft">{describeBand(b, step.bandUnit)}</span>
               </div>
               {renderNext({ label: `Next step for band “${b.label || i + 1}”`, value: b.next, pick: (v) => ({ bands: step.bands.map((x, k) => (k === i ? { ...x, next: v ?? '' } : x)) }) })}
@@ -414,7 +614,25 @@ function MeasureFields({
         })}
         <Button
           variant="secondary"
-          onClick={() => set({ bands: [...step.bands, { id: freshId('b', step.bands.map((x) => x.id)), label: '', min: null, max: null, minInclusive: false, maxInclusive: false, next: '' }] })}
+          onClick={() =>
+            set({
+              bands: [
+                ...step.bands,
+                {
+                  id: freshId(
+                    'b',
+                    step.bands.map((x) => x.id),
+                  ),
+                  label: '',
+                  min: null,
+                  max: null,
+                  minInclusive: false,
+                  maxInclusive: false,
+                  next: '',
+                },
+              ],
+            })
+          }
         >
           Add a band
         </Button>

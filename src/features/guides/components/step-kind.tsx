@@ -45,7 +45,9 @@ export function StepKindBadge({ kind, compact = false }: { kind: StepKind; compa
   const I = KIND_ICONS[kind];
   const ends = kind === 'finding' || kind === 'handoff';
   return (
-    <span className={`inline-flex shrink-0 items-center gap-1 rounded border px-1.5 py-0.5 text-xs font-semibold ${ends ? 'border-ink-soft bg-paper-sunk text-ink' : 'border-rule-strong bg-paper-raised text-ink-soft'}`}>
+    <span
+      className={`inline-flex shrink-0 items-center gap-1 rounded border px-1.5 py-0.5 text-xs font-semibold ${ends ? 'border-ink-soft bg-paper-sunk text-ink' : 'border-rule-strong bg-paper-raised text-ink-soft'}`}
+    >
       <I />
       {compact ? <span className="sr-only">{STEP_KIND_LABELS[kind]}</span> : STEP_KIND_LABELS[kind]}
     </span>

@@ -7,7 +7,9 @@ export function SymptomChips() {
   const guides = useGuides({});
   return (
     <section aria-labelledby="symptoms-heading">
-      <h2 id="symptoms-heading" className="mb-3 text-xl font-semibold">What are you seeing?</h2>
+      <h2 id="symptoms-heading" className="mb-3 text-xl font-semibold">
+        What are you seeing?
+      </h2>
       {guides.isPending ? (
         <Skeleton className="h-24 w-full" />
       ) : guides.isError ? null : guides.data.filter((g) => g.publishedVersion && g.status === 'active').length === 0 ? (

@@ -15,7 +15,14 @@ export function makeStep(kind: StepKind, id: string, title = ''): DraftStep {
   const common = { id, title, cautions: [], photoIds: [], articleIds: [] };
   switch (kind) {
     case 'ask':
-      return { ...common, kind, choices: [{ id: 'c1', label: 'Yes', next: '' }, { id: 'c2', label: 'No', next: '' }] };
+      return {
+        ...common,
+        kind,
+        choices: [
+          { id: 'c1', label: 'Yes', next: '' },
+          { id: 'c2', label: 'No', next: '' },
+        ],
+      };
     case 'measure':
       return {
         ...common,
@@ -40,7 +47,7 @@ export function emptyGuide(symptom: string): Content {
   return { startStepId: 's1', steps: [makeStep('ask', 's1', symptom ? `What do you see? (${symptom})` : '')] };
 }
 
-const clone = <T,>(x: T): T => structuredClone(x);
+const clone = <T>(x: T): T => structuredClone(x);
 
 export function stepIds(c: Content): Set<string> {
   return new Set(c.steps.map((s) => s.id));
@@ -58,7 +65,16 @@ function attach(step: DraftStep, target: string): boolean {
     case 'measure': {
       const open = step.bands.find((b) => !b.next);
       if (open) open.next = target;
-      else step.bands.push({ id: uniqueId('b', new Set(step.bands.map((x) => x.id))), label: `Band ${step.bands.length + 1}`, min: null, max: null, minInclusive: false, maxInclusive: false, next: target });
+      else
+        step.bands.push({
+          id: uniqueId('b', new Set(step.bands.map((x) => x.id))),
+          label: `Band ${step.bands.length + 1}`,
+          min: null,
+          max: null,
+          minInclusive: false,
+          maxInclusive: false,
+          next: target,
+        });
       return true;
     }
     case 'try':
@@ -104,7 +120,9 @@ export function changeKind(c: Content, stepId: string, kind: StepKind): EditResu
   Object.assign(fresh, { body: old.body, cautions: old.cautions, photoIds: old.photoIds, articleIds: old.articleIds });
   if (!old.body) delete (fresh as { body?: unknown }).body;
   // Keep where the old branches led, in order, so changing a question into a reading loses nothing.
-  const targets = branchesOf(old).map((b) => b.next).filter(Boolean);
+  const targets = branchesOf(old)
+    .map((b) => b.next)
+    .filter(Boolean);
   if (fresh.kind === 'ask') fresh.choices.forEach((ch, k) => (ch.next = targets[k] ?? ''));
   if (fresh.kind === 'measure') fresh.bands.forEach((b, k) => (b.next = targets[k] ?? ''));
   if (fresh.kind === 'try') fresh.notFixedNext = targets[0] ?? '';

@@ -44,11 +44,19 @@ export function CausesPage() {
         <TextField label="To" type="date" value={p.to ?? ''} onChange={(e) => set('to', e.target.value)} />
         <SelectField label="Site" value={p.siteId ?? ''} onChange={(e) => set('siteId', e.target.value)}>
           <option value="">All sites</option>
-          {choices.data?.sites.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+          {choices.data?.sites.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.name}
+            </option>
+          ))}
         </SelectField>
         <SelectField label="Line" value={p.lineId ?? ''} onChange={(e) => set('lineId', e.target.value)}>
           <option value="">All lines</option>
-          {lines.map((l) => <option key={l.id} value={l.id}>{l.name}</option>)}
+          {lines.map((l) => (
+            <option key={l.id} value={l.id}>
+              {l.name}
+            </option>
+          ))}
         </SelectField>
         <SelectField label="Actuation" value={p.actuation ?? ''} onChange={(e) => set('actuation', e.target.value)}>
           <option value="">Any</option>
@@ -57,11 +65,19 @@ export function CausesPage() {
         </SelectField>
         <SelectField label="Fluid family" value={p.fluidFamily ?? ''} onChange={(e) => set('fluidFamily', e.target.value)}>
           <option value="">Any</option>
-          {fluids.map((f) => <option key={f.slug} value={f.slug}>{f.label}</option>)}
+          {fluids.map((f) => (
+            <option key={f.slug} value={f.slug}>
+              {f.label}
+            </option>
+          ))}
         </SelectField>
         <SelectField label="Guide" value={p.guideId ?? ''} onChange={(e) => set('guideId', e.target.value)}>
           <option value="">Any guide or none</option>
-          {choices.data?.guides.map((g) => <option key={g.id} value={g.id}>{g.title}</option>)}
+          {choices.data?.guides.map((g) => (
+            <option key={g.id} value={g.id}>
+              {g.title}
+            </option>
+          ))}
         </SelectField>
         <TextField label="Repeat within (days)" type="number" min={1} max={3650} value={p.repeatDays ?? '90'} onChange={(e) => set('repeatDays', e.target.value === '90' ? '' : e.target.value)} />
         <SelectField label="Trend by" value={p.bucket ?? 'month'} onChange={(e) => set('bucket', e.target.value === 'month' ? '' : e.target.value)}>
@@ -70,7 +86,11 @@ export function CausesPage() {
         </SelectField>
       </fieldset>
 
-      {causes.isError ? <Notice tone="error" title="The causes could not be loaded">{errorMessage(causes.error)}</Notice> : null}
+      {causes.isError ? (
+        <Notice tone="error" title="The causes could not be loaded">
+          {errorMessage(causes.error)}
+        </Notice>
+      ) : null}
       {causes.isPending ? <LoadingBlock label="Loading causes" /> : null}
       {d ? <Freshness asOf={d.asOf} /> : null}
       {d && d.empty ? <EmptyState title="No causes to rank">{d.empty}</EmptyState> : null}
@@ -94,7 +114,16 @@ export function CausesPage() {
               <ResponsiveContainer width="100%" height="100%">
                 <ComposedChart data={d.pareto.slice(0, PARETO_BARS)} margin={{ top: 8, right: 8, bottom: 4, left: 36 }}>
                   <CartesianGrid stroke={palette.rule.DEFAULT} strokeDasharray="3 3" />
-                  <XAxis dataKey="label" stroke={palette.ink.soft} fontSize={11} interval={0} angle={-35} textAnchor="end" height={90} tickFormatter={(v: string) => (v.length > 22 ? `${v.slice(0, 21)}…` : v)} />
+                  <XAxis
+                    dataKey="label"
+                    stroke={palette.ink.soft}
+                    fontSize={11}
+                    interval={0}
+                    angle={-35}
+                    textAnchor="end"
+                    height={90}
+                    tickFormatter={(v: string) => (v.length > 22 ? `${v.slice(0, 21)}…` : v)}
+                  />
                   <YAxis yAxisId="n" allowDecimals={false} stroke={palette.ink.soft} fontSize={12} width={40} />
                   <YAxis yAxisId="pct" orientation="right" domain={[0, 100]} stroke={palette.ink.soft} fontSize={12} width={44} tickFormatter={(v: number) => `${v} %`} />
                   <Tooltip formatter={(v, name) => (name === 'Cumulative %' ? [`${num(Number(v), 1)} %`, name] : [v, name])} />
@@ -112,10 +141,22 @@ export function CausesPage() {
               <p>No cause came back on the same applicator within {d.repeatDays} days in this period.</p>
             ) : (
               <>
-                <p className="mb-2">{num(d.repeatTotal)} repeats{d.repeatTotal > d.repeats.length ? ` (the latest ${d.repeats.length} listed)` : ''}, latest first.</p>
+                <p className="mb-2">
+                  {num(d.repeatTotal)} repeats{d.repeatTotal > d.repeats.length ? ` (the latest ${d.repeats.length} listed)` : ''}, latest first.
+                </p>
                 <DataTable caption="Repeat failures" header={REPEAT_HEADER} rows={d.repeats.slice(0, REPEATS_SHOWN).map((r) => [r.tag, r.label, r.firstOn, r.repeatOn, r.daysApart])} />
                 <div className="mt-2 flex flex-wrap gap-2">
-                  <Button type="button" variant="secondary" onClick={() => downloadCsv(`repeat-failures-${d.repeatDays}d-${d.from}-${d.to}.csv`, REPEAT_HEADER, d.repeats.map((r) => [r.tag, r.label, r.firstOn, r.repeatOn, r.daysApart]))}>
+                  <Button
+                    type="button"
+                    variant="secondary"
+                    onClick={() =>
+                      downloadCsv(
+                        `repeat-failures-${d.repeatDays}d-${d.from}-${d.to}.csv`,
+                        REPEAT_HEADER,
+                        d.repeats.map((r) => [r.tag, r.label, r.firstOn, r.repeatOn, r.daysApart]),
+                      )
+                    }
+                  >
                     Download CSV
                   </Button>
                 </div>
@@ -130,7 +171,9 @@ export function CausesPage() {
           </section>
 
           {d.trend.length < 2 ? (
-            <Notice title="No trend yet">The causes fall in {d.trend.length} {d.bucket === 'week' ? 'week' : 'month'} only; a trend needs at least two. Widen the period or show it by week.</Notice>
+            <Notice title="No trend yet">
+              The causes fall in {d.trend.length} {d.bucket === 'week' ? 'week' : 'month'} only; a trend needs at least two. Widen the period or show it by week.
+            </Notice>
           ) : (
             <DataFigure
               title={`Top causes by ${d.bucket}`}

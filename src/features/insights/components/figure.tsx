@@ -22,7 +22,9 @@ export function DataFigure(props: {
   return (
     <figure className="rounded-lg border border-rule bg-paper-raised p-4 sm:p-5" aria-labelledby={headingId} data-testid={props.testId}>
       <div className="mb-3 flex flex-wrap items-center justify-between gap-2">
-        <h2 id={headingId} className="font-serif text-lg font-semibold">{props.title}</h2>
+        <h2 id={headingId} className="font-serif text-lg font-semibold">
+          {props.title}
+        </h2>
         <div className="flex gap-2">
           <Button variant="secondary" type="button" aria-pressed={asTable} onClick={() => setAsTable((v) => !v)}>
             {asTable ? 'Show chart' : 'Show table'}
@@ -53,7 +55,9 @@ export function DataTable({ header, rows, caption }: { header: string[]; rows: C
         <thead>
           <tr className="border-b border-rule-strong">
             {header.map((h) => (
-              <th key={h} scope="col" className="px-2 py-2 font-semibold">{h}</th>
+              <th key={h} scope="col" className="px-2 py-2 font-semibold">
+                {h}
+              </th>
             ))}
           </tr>
         </thead>
@@ -61,7 +65,9 @@ export function DataTable({ header, rows, caption }: { header: string[]; rows: C
           {rows.map((r, i) => (
             <tr key={i} className="border-b border-rule">
               {r.map((c, j) => (
-                <td key={j} className="px-2 py-2 tabular-nums">{c ?? '—'}</td>
+                <td key={j} className="px-2 py-2 tabular-nums">
+                  {c ?? '—'}
+                </td>
               ))}
             </tr>
           ))}

@@ -74,7 +74,9 @@ export function ForecastCalendar({ rows, today, days }: { rows: ForecastRow[]; t
 
   return (
     <section className="rounded-lg border border-rule bg-paper-raised p-4 sm:p-5" aria-labelledby="forecast-calendar" data-print="calendar">
-      <h2 id="forecast-calendar" className="font-serif text-lg font-semibold">Calendar, next {days} days</h2>
+      <h2 id="forecast-calendar" className="font-serif text-lg font-semibold">
+        Calendar, next {days} days
+      </h2>
       {rows.length === 0 ? (
         <p className="mt-2">No service falls due in the next {days} days.</p>
       ) : (
@@ -87,7 +89,10 @@ export function ForecastCalendar({ rows, today, days }: { rows: ForecastRow[]; t
                 <ul className="mt-1 space-y-1 text-sm">
                   {byDay.get(iso)!.map((r) => (
                     <li key={`${r.applicatorId}-${r.part}`}>
-                      <Link className="font-semibold text-amber-deep underline" to={`/applicators/${r.applicatorId}`}>{r.tag}</Link> {PART_LABELS[r.part].toLowerCase()} · {r.site} / {r.line}
+                      <Link className="font-semibold text-amber-deep underline" to={`/applicators/${r.applicatorId}`}>
+                        {r.tag}
+                      </Link>{' '}
+                      {PART_LABELS[r.part].toLowerCase()} · {r.site} / {r.line}
                       {r.status === 'overdue' ? <span className="font-semibold text-danger"> · overdue</span> : null}
                     </li>
                   ))}
@@ -96,7 +101,11 @@ export function ForecastCalendar({ rows, today, days }: { rows: ForecastRow[]; t
             ))}
           </ol>
           {/* Wider screens and paper: month grids. */}
-          <div className="mt-3 hidden gap-4 sm:grid lg:grid-cols-2 print:grid print:grid-cols-1" role="group" aria-label={`Month view, ${busyDays.length} days with services due; arrow keys move between them`}>
+          <div
+            className="mt-3 hidden gap-4 sm:grid lg:grid-cols-2 print:grid print:grid-cols-1"
+            role="group"
+            aria-label={`Month view, ${busyDays.length} days with services due; arrow keys move between them`}
+          >
             {grid.map((month) => (
               <table key={month.key} className="w-full table-fixed border-collapse text-sm">
                 <caption className="mb-1 text-left font-semibold">{month.title}</caption>
@@ -104,7 +113,9 @@ export function ForecastCalendar({ rows, today, days }: { rows: ForecastRow[]; t
                   <tr>
                     {WEEKDAYS.map((w, i) => (
                       <th key={w} scope="col" className="border-b border-rule-strong py-1 text-center font-semibold">
-                        <abbr title={WEEKDAY_NAMES[i]} className="no-underline">{w}</abbr>
+                        <abbr title={WEEKDAY_NAMES[i]} className="no-underline">
+                          {w}
+                        </abbr>
                       </th>
                     ))}
                   </tr>
@@ -117,7 +128,10 @@ export function ForecastCalendar({ rows, today, days }: { rows: ForecastRow[]; t
                         const list = cell.rows;
                         const n = Number(cell.iso.slice(8));
                         return (
-                          <td key={ci} className={`h-16 border border-rule p-1 align-top ${cell.inRange ? '' : 'bg-paper-sunk text-ink-soft'} ${cell.iso === today ? 'ring-2 ring-inset ring-amber' : ''}`}>
+                          <td
+                            key={ci}
+                            className={`h-16 border border-rule p-1 align-top ${cell.inRange ? '' : 'bg-paper-sunk text-ink-soft'} ${cell.iso === today ? 'ring-2 ring-inset ring-amber' : ''}`}
+                          >
                             {list.length ? (
                               <button
                                 ref={(el) => {
@@ -139,7 +153,9 @@ export function ForecastCalendar({ rows, today, days }: { rows: ForecastRow[]; t
                                 </span>
                               </button>
                             ) : (
-                              <span className="p-1" aria-hidden={!cell.inRange}>{n}</span>
+                              <span className="p-1" aria-hidden={!cell.inRange}>
+                                {n}
+                              </span>
                             )}
                           </td>
                         );
@@ -156,7 +172,10 @@ export function ForecastCalendar({ rows, today, days }: { rows: ForecastRow[]; t
               <ul className="mt-1 space-y-1 text-sm">
                 {byDay.get(chosen)!.map((r) => (
                   <li key={`${r.applicatorId}-${r.part}`}>
-                    <Link className="font-semibold text-amber-deep underline" to={`/applicators/${r.applicatorId}`}>{r.tag}</Link> {PART_LABELS[r.part].toLowerCase()} · {r.site} / {r.line}
+                    <Link className="font-semibold text-amber-deep underline" to={`/applicators/${r.applicatorId}`}>
+                      {r.tag}
+                    </Link>{' '}
+                    {PART_LABELS[r.part].toLowerCase()} · {r.site} / {r.line}
                     {r.status === 'overdue' ? ' · overdue' : ''}
                   </li>
                 ))}
@@ -167,7 +186,11 @@ export function ForecastCalendar({ rows, today, days }: { rows: ForecastRow[]; t
           <ul className="mt-3 hidden text-sm print:block">
             {busyDays.map((iso) => (
               <li key={iso} className="break-inside-avoid">
-                <span className="font-semibold">{formatDate(iso)}:</span> {byDay.get(iso)!.map((r) => `${r.tag} ${PART_LABELS[r.part].toLowerCase()} (${r.site} / ${r.line})`).join('; ')}
+                <span className="font-semibold">{formatDate(iso)}:</span>{' '}
+                {byDay
+                  .get(iso)!
+                  .map((r) => `${r.tag} ${PART_LABELS[r.part].toLowerCase()} (${r.site} / ${r.line})`)
+                  .join('; ')}
               </li>
             ))}
           </ul>

@@ -25,7 +25,9 @@ export function InsightsRoutes() {
             key={to}
             to={to ? `/insights/${to}` : '/insights'}
             end
-            className={({ isActive }) => `-mb-px flex min-h-11 items-center border-b-2 px-3 font-semibold ${isActive ? 'border-amber text-amber-deep' : 'border-transparent text-ink-soft hover:text-ink'}`}
+            className={({ isActive }) =>
+              `-mb-px flex min-h-11 items-center border-b-2 px-3 font-semibold ${isActive ? 'border-amber text-amber-deep' : 'border-transparent text-ink-soft hover:text-ink'}`
+            }
           >
             {label}
           </NavLink>

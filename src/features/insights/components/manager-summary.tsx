@@ -31,16 +31,22 @@ export function ManagerSummary() {
                     <span className="block text-sm">{b.label}</span>
                     <span className="block h-2 rounded bg-amber" style={{ width: `${Math.max(4, share)}%` }} aria-hidden />
                   </span>
-                  <span className="tabular text-sm font-semibold">{b.count} · {share} %</span>
+                  <span className="tabular text-sm font-semibold">
+                    {b.count} · {share} %
+                  </span>
                 </li>
               );
             })}
           </ol>
         )}
         {causes.data && causes.data.repeatTotal ? (
-          <p className="mt-3 text-sm font-semibold text-danger-deep">{causes.data.repeatTotal} repeat failure{causes.data.repeatTotal > 1 ? 's' : ''} within {causes.data.repeatDays} days</p>
+          <p className="mt-3 text-sm font-semibold text-danger-deep">
+            {causes.data.repeatTotal} repeat failure{causes.data.repeatTotal > 1 ? 's' : ''} within {causes.data.repeatDays} days
+          </p>
         ) : null}
-        <Link to="/insights" className="mt-3 inline-flex min-h-11 items-center font-semibold text-amber-deep underline">Recurring causes</Link>
+        <Link to="/insights" className="mt-3 inline-flex min-h-11 items-center font-semibold text-amber-deep underline">
+          Recurring causes
+        </Link>
       </section>
       <section aria-label="Services due in 30 days" className="rounded-lg border border-rule bg-paper-raised p-4">
         <h2 className="text-lg font-semibold">Services due in 30 days</h2>
@@ -54,14 +60,18 @@ export function ManagerSummary() {
           <ul className="mt-2 divide-y divide-rule">
             {forecast.data.rows.slice(0, 6).map((r) => (
               <li key={`${r.applicatorId}-${r.part}`} className="flex min-h-11 items-center justify-between gap-2 text-sm">
-                <Link to={`/applicators/${r.applicatorId}`} className="font-semibold underline">{r.tag}</Link>
+                <Link to={`/applicators/${r.applicatorId}`} className="font-semibold underline">
+                  {r.tag}
+                </Link>
                 <span>{r.part}</span>
                 <span className={r.status === 'overdue' ? 'font-semibold text-danger-deep' : 'text-ink-soft'}>{r.status === 'overdue' ? 'overdue' : `in ${Math.round(r.daysRemaining)} d`}</span>
               </li>
             ))}
           </ul>
         )}
-        <Link to="/insights/forecast" className="mt-3 inline-flex min-h-11 items-center font-semibold text-amber-deep underline">Service forecast</Link>
+        <Link to="/insights/forecast" className="mt-3 inline-flex min-h-11 items-center font-semibold text-amber-deep underline">
+          Service forecast
+        </Link>
       </section>
     </div>
   );

@@ -40,7 +40,11 @@ export function ReliabilityPage() {
     <div className="space-y-5">
       <div className="flex flex-wrap gap-3">
         <SelectField label="Component" value={p.part} onChange={(e) => set('part', e.target.value === 'seat' ? '' : e.target.value)}>
-          {RELIABILITY_PARTS.map((x) => <option key={x} value={x}>{RELIABILITY_PART_LABELS[x]}</option>)}
+          {RELIABILITY_PARTS.map((x) => (
+            <option key={x} value={x}>
+              {RELIABILITY_PART_LABELS[x]}
+            </option>
+          ))}
         </SelectField>
         <SelectField label="Actuation" value={p.actuation ?? ''} onChange={(e) => set('actuation', e.target.value)}>
           <option value="">Any</option>
@@ -49,10 +53,18 @@ export function ReliabilityPage() {
         </SelectField>
         <SelectField label="Fluid family" value={p.fluidFamily ?? ''} onChange={(e) => set('fluidFamily', e.target.value)}>
           <option value="">Any</option>
-          {DEFAULT_TAGS.filter((t) => t.group === 'fluid').map((f) => <option key={f.slug} value={f.slug}>{f.label}</option>)}
+          {DEFAULT_TAGS.filter((t) => t.group === 'fluid').map((f) => (
+            <option key={f.slug} value={f.slug}>
+              {f.label}
+            </option>
+          ))}
         </SelectField>
       </div>
-      {q.isError ? <Notice tone="error" title="Reliability could not be loaded">{errorMessage(q.error)}</Notice> : null}
+      {q.isError ? (
+        <Notice tone="error" title="Reliability could not be loaded">
+          {errorMessage(q.error)}
+        </Notice>
+      ) : null}
       {q.isPending ? <LoadingBlock label="Loading reliability" /> : null}
       {d ? (
         <>
@@ -65,21 +77,48 @@ export function ReliabilityPage() {
             <section className="rounded-lg border border-rule bg-paper-raised p-4 sm:p-5" data-testid="weibull-fit">
               <h2 className="font-serif text-lg font-semibold">Weibull fit (method: maximum likelihood)</h2>
               <dl className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-4">
-                <div><dt className="text-sm text-ink-soft">Shape β</dt><dd className="text-xl font-semibold">{num(d.fit.shape, 2)}</dd></div>
-                <div><dt className="text-sm text-ink-soft">Scale η</dt><dd className="text-xl font-semibold">{millions(d.fit.scale)} cycles</dd></div>
-                <div><dt className="text-sm text-ink-soft">B10 life</dt><dd className="text-xl font-semibold">{millions(d.fit.b10)} cycles</dd></div>
-                <div><dt className="text-sm text-ink-soft">Sample</dt><dd className="text-xl font-semibold">{d.failures} failed, {d.suspensions} running or planned</dd></div>
+                <div>
+                  <dt className="text-sm text-ink-soft">Shape β</dt>
+                  <dd className="text-xl font-semibold">{num(d.fit.shape, 2)}</dd>
+                </div>
+                <div>
+                  <dt className="text-sm text-ink-soft">Scale η</dt>
+                  <dd className="text-xl font-semibold">{millions(d.fit.scale)} cycles</dd>
+                </div>
+                <div>
+                  <dt className="text-sm text-ink-soft">B10 life</dt>
+                  <dd className="text-xl font-semibold">{millions(d.fit.b10)} cycles</dd>
+                </div>
+                <div>
+                  <dt className="text-sm text-ink-soft">Sample</dt>
+                  <dd className="text-xl font-semibold">
+                    {d.failures} failed, {d.suspensions} running or planned
+                  </dd>
+                </div>
               </dl>
-              {d.failures < 5 ? <Notice tone="warn" title="Too few failures to trust">Only {d.failures} failures: treat β and η as rough until at least 5 have been recorded.</Notice> : null}
-              {d.fit.warnings.filter((w) => d.failures >= 5 || !/Only \d+ failures/.test(w)).map((w) => <p key={w} className="mt-2 text-sm">{w}</p>)}
+              {d.failures < 5 ? (
+                <Notice tone="warn" title="Too few failures to trust">
+                  Only {d.failures} failures: treat β and η as rough until at least 5 have been recorded.
+                </Notice>
+              ) : null}
+              {d.fit.warnings
+                .filter((w) => d.failures >= 5 || !/Only \d+ failures/.test(w))
+                .map((w) => (
+                  <p key={w} className="mt-2 text-sm">
+                    {w}
+                  </p>
+                ))}
               {d.planned ? (
                 <p className="mt-3">
-                  Planned interval: {millions(d.planned.cycles)} cycles ({d.planned.sourceKind === 'organisation' ? 'your organisation’s default' : 'common practice'}{d.planned.sourceKind === 'organisation' ? '' : `: ${d.planned.source.replace(/^common practice \(|\)$/g, '')}`}).{' '}
+                  Planned interval: {millions(d.planned.cycles)} cycles ({d.planned.sourceKind === 'organisation' ? 'your organisation’s default' : 'common practice'}
+                  {d.planned.sourceKind === 'organisation' ? '' : `: ${d.planned.source.replace(/^common practice \(|\)$/g, '')}`}).{' '}
                   {d.planned.unreliabilityAtPlanned !== null
                     ? `By the fit, ${num(100 * d.planned.unreliabilityAtPlanned, 1)} % of parts would have failed by then; B10 is ${d.fit.b10 < d.planned.cycles ? 'shorter' : 'longer'} than the planned interval.`
                     : null}
                 </p>
-              ) : <p className="mt-3">Coils have no planned replacement interval to compare with.</p>}
+              ) : (
+                <p className="mt-3">Coils have no planned replacement interval to compare with.</p>
+              )}
             </section>
           ) : null}
           {d.plot ? (
@@ -94,8 +133,24 @@ export function ReliabilityPage() {
                 <ResponsiveContainer width="100%" height="100%">
                   <ComposedChart margin={{ top: 8, right: 12, bottom: 16, left: 0 }}>
                     <CartesianGrid stroke={palette.rule.DEFAULT} strokeDasharray="3 3" />
-                    <XAxis dataKey="x" type="number" domain={['dataMin', 'dataMax']} stroke={palette.ink.soft} fontSize={12} tickFormatter={(v: number) => millions(Math.exp(v))} label={{ value: 'cycles (log scale)', position: 'insideBottom', offset: -8, fontSize: 12 }} />
-                    <YAxis dataKey="y" type="number" domain={['auto', 'auto']} stroke={palette.ink.soft} fontSize={12} width={64} tickFormatter={(v: number) => `${Number((100 * (1 - Math.exp(-Math.exp(v)))).toPrecision(2))} %`} />
+                    <XAxis
+                      dataKey="x"
+                      type="number"
+                      domain={['dataMin', 'dataMax']}
+                      stroke={palette.ink.soft}
+                      fontSize={12}
+                      tickFormatter={(v: number) => millions(Math.exp(v))}
+                      label={{ value: 'cycles (log scale)', position: 'insideBottom', offset: -8, fontSize: 12 }}
+                    />
+                    <YAxis
+                      dataKey="y"
+                      type="number"
+                      domain={['auto', 'auto']}
+                      stroke={palette.ink.soft}
+                      fontSize={12}
+                      width={64}
+                      tickFormatter={(v: number) => `${Number((100 * (1 - Math.exp(-Math.exp(v)))).toPrecision(2))} %`}
+                    />
                     <Tooltip formatter={(v, n) => [num(Number(v), 3), n]} />
                     <Line data={line} dataKey="fit" name="Regression" stroke={palette.ink.DEFAULT} dot={false} isAnimationActive={false} />
                     <Scatter data={d.plot.points} dataKey="y" name="Failures" fill={palette.amber.DEFAULT} isAnimationActive={false} />
@@ -106,18 +161,32 @@ export function ReliabilityPage() {
           ) : null}
           {d.intervals.length ? (
             <details className="rounded-lg border border-rule bg-paper-raised p-4">
-              <summary className="cursor-pointer font-semibold">The {d.intervalCount} intervals used{d.intervalCount > d.intervals.length ? ` (first ${d.intervals.length} listed)` : ''}</summary>
+              <summary className="cursor-pointer font-semibold">
+                The {d.intervalCount} intervals used{d.intervalCount > d.intervals.length ? ` (first ${d.intervals.length} listed)` : ''}
+              </summary>
               <DataTable
                 caption="Intervals between replacements"
                 header={['Applicator', 'From', 'To', 'Cycles', 'Counted as']}
-                rows={d.intervals.slice(0, 500).map((i) => [i.tag, i.from ?? 'installation', i.to ?? 'still running', millions(i.cycles), i.reason === 'failed' ? 'failure' : i.reason === 'planned' ? 'suspension (planned change)' : 'suspension (running)'])}
+                rows={d.intervals
+                  .slice(0, 500)
+                  .map((i) => [
+                    i.tag,
+                    i.from ?? 'installation',
+                    i.to ?? 'still running',
+                    millions(i.cycles),
+                    i.reason === 'failed' ? 'failure' : i.reason === 'planned' ? 'suspension (planned change)' : 'suspension (running)',
+                  ])}
               />
             </details>
           ) : null}
           {d.skipped.length ? (
             <details className="rounded-lg border border-rule bg-paper-raised p-4">
               <summary className="cursor-pointer font-semibold">{d.skipped.length} replacements left out</summary>
-              <ul className="mt-2 list-disc pl-5 text-sm">{d.skipped.map((s) => <li key={s}>{s}</li>)}</ul>
+              <ul className="mt-2 list-disc pl-5 text-sm">
+                {d.skipped.map((s) => (
+                  <li key={s}>{s}</li>
+                ))}
+              </ul>
             </details>
           ) : null}
         </>

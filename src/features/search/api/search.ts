@@ -57,8 +57,7 @@ export function useSynonyms() {
 export function useSaveSynonyms() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (groups: string[][]) =>
-      api<{ groups: string[][] }>('/api/admin/search/synonyms', { method: 'PUT', body: { groups: groups.map((terms) => ({ terms })) } }).then((r) => r.groups),
+    mutationFn: (groups: string[][]) => api<{ groups: string[][] }>('/api/admin/search/synonyms', { method: 'PUT', body: { groups: groups.map((terms) => ({ terms })) } }).then((r) => r.groups),
     onSuccess: (groups) => {
       qc.setQueryData(searchKeys.synonyms(), groups);
       qc.invalidateQueries({ queryKey: [...searchKeys.all, 'results'] });

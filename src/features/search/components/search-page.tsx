@@ -145,7 +145,15 @@ function SynonymEditor() {
   if (synonyms.isPending || !rows) return <LoadingBlock label="Loading synonyms" />;
   if (synonyms.isError) return <Notice tone="error" title="Synonyms could not be loaded" />;
   const fields = save.error instanceof ApiError ? save.error.fields : {};
-  const groups = () => rows.map((r) => r.split(',').map((t) => t.trim()).filter(Boolean)).filter((g) => g.length);
+  const groups = () =>
+    rows
+      .map((r) =>
+        r
+          .split(',')
+          .map((t) => t.trim())
+          .filter(Boolean),
+      )
+      .filter((g) => g.length);
 
   return (
     <Card>
@@ -246,10 +254,7 @@ export function SearchAdminPage() {
             {rebuild.finished ? (
               <p className="font-semibold text-fixed">✓ Index rebuilt: {formatInteger(rebuild.queued)} items indexed.</p>
             ) : (
-              <ProgressBar
-                label={`Rebuilding the index: ${formatInteger(rebuild.done)} of ${formatInteger(rebuild.queued)} items`}
-                value={rebuild.queued ? rebuild.done / rebuild.queued : null}
-              />
+              <ProgressBar label={`Rebuilding the index: ${formatInteger(rebuild.done)} of ${formatInteger(rebuild.queued)} items`} value={rebuild.queued ? rebuild.done / rebuild.queued : null} />
             )}
           </div>
         </Card>

@@ -35,7 +35,8 @@ export function useWalkSummary(id: number) {
 export function useStartWalk() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (b: { guideId: number; site?: string; line?: string; applicator?: string; clientId: string }) => api<{ walk: WalkDetail }>('/api/walks', { method: 'POST', body: b }).then((r) => r.walk),
+    mutationFn: (b: { guideId: number; site?: string; line?: string; applicator?: string; clientId: string }) =>
+      api<{ walk: WalkDetail }>('/api/walks', { method: 'POST', body: b }).then((r) => r.walk),
     onSuccess: (w) => {
       qc.setQueryData(walkKeys.detail(w.id), w);
       qc.invalidateQueries({ queryKey: [...walkKeys.all, 'list'] });

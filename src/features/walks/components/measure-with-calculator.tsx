@@ -13,30 +13,56 @@ import { useCalculation } from '@/components/calculator/use-calculation';
 import { formatValue } from '@/components/calculator/calculator-results';
 import { BandPreview, type Submit } from './step-views';
 
-export function MeasureWithCalculator({ step, disabled, system, submit, specs }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit; specs?: ApplicatorSpecs }) {
+export function MeasureWithCalculator({
+  step,
+  disabled,
+  system,
+  submit,
+  specs,
+}: {
+  step: Extract<Step, { kind: 'measure' }>;
+  disabled: boolean;
+  system: UnitSystem;
+  submit: Submit;
+  specs?: ApplicatorSpecs;
+}) {
   const ref = step.calculator!;
   const calc = getCalculator(ref.id)!;
   const fixedNames = Object.keys(ref.fixedInputs);
-  const shown = useMemo(() => ({ ...calc, inputs: calc.inputs.filter((i) => !fixedNames.includes(i.name)).map((i) => (i.name === ref.readingInput ? { ...i, label: step.reading.label || i.label } : i)) }), [calc, fixedNames, ref.readingInput, step.reading.label]);
+  const shown = useMemo(
+    () => ({ ...calc, inputs: calc.inputs.filter((i) => !fixedNames.includes(i.name)).map((i) => (i.name === ref.readingInput ? { ...i, label: step.reading.label || i.label } : i)) }),
+    [calc, fixedNames, ref.readingInput, step.reading.label],
+  );
   const [state, setState] = useState<FormState>(() => {
     const s = initialState(calc, system);
     for (const [k, v] of Object.entries(ref.fixedInputs)) s[k] = typeof v === 'string' ? { text: v, unit: '' } : { text: String(v.value), unit: v.unit };
     if (specs) {
-      const fill = prefillFromApplicator(specs, calc.inputs.filter((i) => !(i.name in ref.fixedInputs) && i.name !== ref.readingInput));
+      const fill = prefillFromApplicator(
+        specs,
+        calc.inputs.filter((i) => !(i.name in ref.fixedInputs) && i.name !== ref.readingInput),
+      );
       for (const [k, v] of Object.entries(fill)) s[k] = { text: String(v.value), unit: v.unit };
     }
     return s;
   });
-  const prefilled = specs ? Object.entries(prefillFromApplicator(specs, calc.inputs.filter((i) => !(i.name in ref.fixedInputs) && i.name !== ref.readingInput))) : [];
+  const prefilled = specs
+    ? Object.entries(
+        prefillFromApplicator(
+          specs,
+          calc.inputs.filter((i) => !(i.name in ref.fixedInputs) && i.name !== ref.readingInput),
+        ),
+      )
+    : [];
   const [outputUnits] = useState<Record<string, string>>({ [ref.output]: step.bandUnit });
   const calcResult = useCalculation(calc, state, outputUnits);
   const [error, setError] = useState<string | null>(null);
   const out = calcResult.result?.outputs[ref.output];
   const readingField = ref.readingInput ? state[ref.readingInput] : undefined;
   const readingValue = readingField ? Number(readingField.text.replace(',', '.')) : NaN;
-  const calculatorInputs = Object.fromEntries(
-    Object.entries(calcResult.request).filter(([k]) => k !== ref.readingInput && !fixedNames.includes(k)),
-  ) as Record<string, { value: number; unit: string } | string>;
+  const calculatorInputs = Object.fromEntries(Object.entries(calcResult.request).filter(([k]) => k !== ref.readingInput && !fixedNames.includes(k))) as Record<
+    string,
+    { value: number; unit: string } | string
+  >;
   const tentative: RoutingAnswer | null =
     out && typeof out === 'object' && Number.isFinite(readingValue)
       ? { kind: 'reading', stepId: step.id, id: 'preview-0000', answeredAt: new Date().toISOString(), value: readingValue, unit: readingField!.unit, calculatorInputs, computed: out }
@@ -48,7 +74,14 @@ export function MeasureWithCalculator({ step, disabled, system, submit, specs }:
         <p className="mb-2 text-sm font-semibold text-ink-soft">Worked out with: {calc.title}</p>
         {fixedNames.length ? (
           <p className="mb-3 text-sm text-ink-soft">
-            Known: {fixedNames.map((n) => { const v = ref.fixedInputs[n]; const d = calc.inputs.find((i) => i.name === n); return `${d?.label ?? n} ${typeof v === 'string' ? v : `${v.value} ${unitLabel(v.unit)}`}`; }).join(' · ')}
+            Known:{' '}
+            {fixedNames
+              .map((n) => {
+                const v = ref.fixedInputs[n];
+                const d = calc.inputs.find((i) => i.name === n);
+                return `${d?.label ?? n} ${typeof v === 'string' ? v : `${v.value} ${unitLabel(v.unit)}`}`;
+              })
+              .join(' · ')}
           </p>
         ) : null}
         {prefilled.length ? (
@@ -65,13 +98,21 @@ export function MeasureWithCalculator({ step, disabled, system, submit, specs }:
       ) : calcResult.missing.length ? (
         <p className="text-sm text-ink-soft">Still needed: {calcResult.missing.filter((m) => !fixedNames.some((n) => calc.inputs.find((i) => i.name === n)?.label === m)).join(', ')}</p>
       ) : null}
-      {calcResult.result?.warnings.map((w) => <p key={w.code} className="rounded border-l-4 border-amber-line bg-amber-wash px-3 py-1 text-sm">{w.message}</p>)}
+      {calcResult.result?.warnings.map((w) => (
+        <p key={w.code} className="rounded border-l-4 border-amber-line bg-amber-wash px-3 py-1 text-sm">
+          {w.message}
+        </p>
+      ))}
       <BandPreview step={step} answer={tentative} />
       {error ? <Notice tone="error" title={error} /> : null}
       <Button
         className="w-full !min-h-14 text-lg"
         disabled={disabled || !tentative}
-        onClick={async () => tentative && tentative.kind === 'reading' && setError(await submit({ kind: 'reading', stepId: step.id, value: tentative.value, unit: tentative.unit, calculatorInputs, computed: tentative.computed }))}
+        onClick={async () =>
+          tentative &&
+          tentative.kind === 'reading' &&
+          setError(await submit({ kind: 'reading', stepId: step.id, value: tentative.value, unit: tentative.unit, calculatorInputs, computed: tentative.computed }))
+        }
       >
         Use this reading
       </Button>

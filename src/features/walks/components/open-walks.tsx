@@ -17,7 +17,8 @@ export function OpenWalks() {
             <Link to={`/walks/${w.id}`} className="flex min-h-14 flex-col justify-center rounded-lg border-2 border-amber-line bg-paper-raised px-4 py-2">
               <span className="font-semibold">{w.guideTitle}</span>
               <span className="text-sm text-ink-soft">
-                Step {w.pathLength}: {w.currentStepTitle ?? '—'}{w.line ? ` · ${w.line}` : ''} · {formatDateTime(w.updatedAt)}
+                Step {w.pathLength}: {w.currentStepTitle ?? '—'}
+                {w.line ? ` · ${w.line}` : ''} · {formatDateTime(w.updatedAt)}
               </span>
             </Link>
           </li>

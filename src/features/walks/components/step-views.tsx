@@ -62,8 +62,12 @@ export function TryView({ step, disabled, submit }: { step: Extract<Step, { kind
     <div className="space-y-3">
       <p className="rounded-md bg-paper-sunk p-3 text-lg">{step.action}</p>
       <div className="grid grid-cols-2 gap-3">
-        <Button className="!min-h-14 text-lg" disabled={disabled} onClick={async () => setError(await submit({ kind: 'try', stepId: step.id, fixed: true }))}>Fixed</Button>
-        <Button variant="secondary" className="!min-h-14 text-lg" disabled={disabled} onClick={async () => setError(await submit({ kind: 'try', stepId: step.id, fixed: false }))}>Not fixed</Button>
+        <Button className="!min-h-14 text-lg" disabled={disabled} onClick={async () => setError(await submit({ kind: 'try', stepId: step.id, fixed: true }))}>
+          Fixed
+        </Button>
+        <Button variant="secondary" className="!min-h-14 text-lg" disabled={disabled} onClick={async () => setError(await submit({ kind: 'try', stepId: step.id, fixed: false }))}>
+          Not fixed
+        </Button>
       </div>
       {error ? <Notice tone="error" title={error} /> : null}
     </div>
@@ -107,11 +111,25 @@ function PlainMeasure({ step, disabled, system, submit }: { step: Extract<Step, 
   const tentative: RoutingAnswer | null = text.trim() && Number.isFinite(value) ? { kind: 'reading', stepId: step.id, id: 'preview-0000', answeredAt: new Date().toISOString(), value, unit } : null;
   return (
     <div className="space-y-3">
-      <label className="block text-sm font-semibold" htmlFor={`reading-${step.id}`}>{step.reading.label || 'Reading'}</label>
+      <label className="block text-sm font-semibold" htmlFor={`reading-${step.id}`}>
+        {step.reading.label || 'Reading'}
+      </label>
       <div className="flex gap-2">
-        <input id={`reading-${step.id}`} className={`${inputClass} tabular !min-h-14 text-2xl`} inputMode="decimal" autoComplete="off" value={text} onChange={(e) => setText(e.target.value)} disabled={disabled} />
+        <input
+          id={`reading-${step.id}`}
+          className={`${inputClass} tabular !min-h-14 text-2xl`}
+          inputMode="decimal"
+          autoComplete="off"
+          value={text}
+          onChange={(e) => setText(e.target.value)}
+          disabled={disabled}
+        />
         <select aria-label="Unit" className={`${inputClass} w-auto !min-h-14`} value={unit} onChange={(e) => setUnit(e.target.value)} disabled={disabled}>
-          {units.map((u) => <option key={u} value={u}>{unitLabel(u, step.reading.kind)}</option>)}
+          {units.map((u) => (
+            <option key={u} value={u}>
+              {unitLabel(u, step.reading.kind)}
+            </option>
+          ))}
         </select>
       </div>
       <BandPreview step={step} answer={tentative} />
@@ -123,17 +141,7 @@ function PlainMeasure({ step, disabled, system, submit }: { step: Extract<Step, 
   );
 }
 
-export function FindingView({
-  step,
-  disabled,
-  causes,
-  submit,
-}: {
-  step: Extract<Step, { kind: 'finding' }>;
-  disabled: boolean;
-  causes: { code: string; label: string }[];
-  submit: Submit;
-}) {
+export function FindingView({ step, disabled, causes, submit }: { step: Extract<Step, { kind: 'finding' }>; disabled: boolean; causes: { code: string; label: string }[]; submit: Submit }) {
   const [ticked, setTicked] = useState<number[]>([]);
   const [other, setOther] = useState(false);
   const [note, setNote] = useState('');
@@ -153,8 +161,15 @@ export function FindingView({
           {step.remedy.map((r, i) => (
             <li key={i}>
               <label className="flex min-h-11 cursor-pointer items-start gap-3 rounded-md border border-rule bg-paper-raised p-2">
-                <input type="checkbox" className="mt-1 size-6 accent-[#1E6B3B]" checked={ticked.includes(i)} onChange={() => setTicked((t) => (t.includes(i) ? t.filter((x) => x !== i) : [...t, i]))} />
-                <span className={ticked.includes(i) ? 'text-ink-soft line-through' : ''}>{i + 1}. {r}</span>
+                <input
+                  type="checkbox"
+                  className="mt-1 size-6 accent-[#1E6B3B]"
+                  checked={ticked.includes(i)}
+                  onChange={() => setTicked((t) => (t.includes(i) ? t.filter((x) => x !== i) : [...t, i]))}
+                />
+                <span className={ticked.includes(i) ? 'text-ink-soft line-through' : ''}>
+                  {i + 1}. {r}
+                </span>
               </label>
             </li>
           ))}
@@ -164,7 +179,12 @@ export function FindingView({
         <div>
           <p className="font-semibold">Parts to have ready</p>
           <ul className="mt-1 list-disc pl-5">
-            {step.parts.map((p, i) => <li key={i}>{p.quantity} × {p.name}{p.partNumber ? ` (${p.partNumber})` : ''}</li>)}
+            {step.parts.map((p, i) => (
+              <li key={i}>
+                {p.quantity} × {p.name}
+                {p.partNumber ? ` (${p.partNumber})` : ''}
+              </li>
+            ))}
           </ul>
         </div>
       ) : null}
@@ -175,9 +195,15 @@ export function FindingView({
       </label>
       <p className="font-semibold">Did it fix the fault?</p>
       <div className="grid gap-2 sm:grid-cols-3">
-        <Button className="!min-h-14 text-lg" disabled={disabled} onClick={() => void send('fixed')}>Fixed</Button>
-        <Button variant="secondary" className="!min-h-14" disabled={disabled} onClick={() => void send('not-fixed')}>Not fixed</Button>
-        <Button variant="secondary" className="!min-h-14" disabled={disabled} onClick={() => setOther(true)} aria-expanded={other}>Fixed by something else</Button>
+        <Button className="!min-h-14 text-lg" disabled={disabled} onClick={() => void send('fixed')}>
+          Fixed
+        </Button>
+        <Button variant="secondary" className="!min-h-14" disabled={disabled} onClick={() => void send('not-fixed')}>
+          Not fixed
+        </Button>
+        <Button variant="secondary" className="!min-h-14" disabled={disabled} onClick={() => setOther(true)} aria-expanded={other}>
+          Fixed by something else
+        </Button>
       </div>
       {other ? (
         <div className="space-y-2 rounded-md border border-rule p-3">
@@ -185,11 +211,17 @@ export function FindingView({
             <span className="mb-1 block text-sm font-semibold">What was it really?</span>
             <select className={inputClass} value={cause} onChange={(e) => setCause(e.target.value)}>
               <option value="">— choose the cause —</option>
-              {causes.map((c) => <option key={c.code} value={c.code}>{c.label}</option>)}
+              {causes.map((c) => (
+                <option key={c.code} value={c.code}>
+                  {c.label}
+                </option>
+              ))}
             </select>
           </label>
           <p className="text-sm text-ink-soft">Say in the note above what you did.</p>
-          <Button disabled={disabled || !cause || !note.trim()} onClick={() => void send('fixed-by-other')}>Record it</Button>
+          <Button disabled={disabled || !cause || !note.trim()} onClick={() => void send('fixed-by-other')}>
+            Record it
+          </Button>
         </div>
       ) : null}
       {error ? <Notice tone="error" title={error} /> : null}

@@ -24,7 +24,9 @@ export function WalkPath({ steps, state }: { steps: Step[]; state: WalkState }) 
         if (!s) return null;
         return (
           <li key={`${e.stepId}-${i}`} data-path-step={e.stepId} className="rounded-md border border-rule bg-paper-raised p-2">
-            <p className="text-xs font-semibold text-ink-soft">{i + 1}. {STEP_KIND_LABELS[s.kind]}</p>
+            <p className="text-xs font-semibold text-ink-soft">
+              {i + 1}. {STEP_KIND_LABELS[s.kind]}
+            </p>
             <p>{s.title}</p>
             {e.answer ? <p className="font-semibold">{answerWords(s, e)}</p> : <p className="text-sm text-ink-soft">{state.current === e.stepId ? 'waiting for an answer' : ''}</p>}
           </li>

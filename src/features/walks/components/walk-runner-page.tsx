@@ -31,7 +31,11 @@ export function WalkRunnerPage() {
   if (walk.isPending) return <LoadingBlock label="Opening the walk" />;
   if (walk.isError) {
     if (walk.error instanceof ApiError && walk.error.status === 404) return <NotFoundPage />;
-    return <Notice tone="error" title="The walk could not be opened">{errorMessage(walk.error)}</Notice>;
+    return (
+      <Notice tone="error" title="The walk could not be opened">
+        {errorMessage(walk.error)}
+      </Notice>
+    );
   }
   const data = polled.data ?? walk.data;
   if (live || data.status === 'abandoned') return <WalkWatch walk={data} live={Boolean(live)} />;
@@ -41,7 +45,12 @@ export function WalkRunnerPage() {
 function SyncBadge({ sync, waiting }: { sync: string; waiting: number }) {
   const words = sync === 'saved' ? 'Saved' : sync === 'sending' ? 'Sending…' : `${waiting} waiting to send`;
   return (
-    <span role="status" aria-live="polite" data-sync={sync === 'saved' ? 'saved' : 'waiting'} className={`rounded-full px-3 py-1 text-sm font-semibold ${sync === 'saved' ? 'bg-fixed-wash text-fixed' : 'bg-amber-wash text-amber-deep'}`}>
+    <span
+      role="status"
+      aria-live="polite"
+      data-sync={sync === 'saved' ? 'saved' : 'waiting'}
+      className={`rounded-full px-3 py-1 text-sm font-semibold ${sync === 'saved' ? 'bg-fixed-wash text-fixed' : 'bg-amber-wash text-amber-deep'}`}
+    >
       {words}
     </span>
   );
@@ -114,7 +123,9 @@ function Runner({ walk }: { walk: WalkDetail }) {
       {run.error ? (
         <div className="mb-3">
           <Notice tone="error" title={run.error} />
-          <Button variant="quiet" onClick={run.clearError}>Dismiss</Button>
+          <Button variant="quiet" onClick={run.clearError}>
+            Dismiss
+          </Button>
         </div>
       ) : null}
 
@@ -122,7 +133,13 @@ function Runner({ walk }: { walk: WalkDetail }) {
         <section className="space-y-4" aria-label="Walk ended">
           <div className={`rounded-md border-2 p-4 ${state.outcome?.outcome === 'fixed' || state.ended === 'fixed-by-try' ? 'border-fixed bg-fixed-wash' : 'border-rule-strong bg-paper-sunk'}`}>
             <h1 className="text-2xl font-semibold">
-              {state.ended === 'handoff' ? 'Handed off' : state.ended === 'fixed-by-try' || state.outcome?.outcome === 'fixed' ? 'Fixed' : state.outcome?.outcome === 'fixed-by-other' ? 'Fixed by something else' : 'Not fixed'}
+              {state.ended === 'handoff'
+                ? 'Handed off'
+                : state.ended === 'fixed-by-try' || state.outcome?.outcome === 'fixed'
+                  ? 'Fixed'
+                  : state.outcome?.outcome === 'fixed-by-other'
+                    ? 'Fixed by something else'
+                    : 'Not fixed'}
             </h1>
             <p className="mt-1">{step.title}</p>
           </div>
@@ -140,7 +157,9 @@ function Runner({ walk }: { walk: WalkDetail }) {
           <Link to={`/walks/${walk.id}/summary`} className="inline-flex min-h-14 w-full items-center justify-center rounded-md border border-rule-strong bg-paper-raised text-lg font-semibold">
             See the record
           </Link>
-          <Link to="/" className="inline-flex min-h-11 w-full items-center justify-center font-semibold text-amber-deep underline">Home</Link>
+          <Link to="/" className="inline-flex min-h-11 w-full items-center justify-center font-semibold text-amber-deep underline">
+            Home
+          </Link>
         </section>
       ) : (
         <section aria-labelledby="step-title" className="space-y-4">
@@ -148,26 +167,30 @@ function Runner({ walk }: { walk: WalkDetail }) {
             <p className="flex items-center gap-1 text-sm font-semibold text-ink-soft">
               <StepKindIcon kind={step.kind} /> {STEP_KIND_LABELS[step.kind]}
             </p>
-            <h1 id="step-title" className="text-2xl font-semibold leading-snug">{step.title}</h1>
+            <h1 id="step-title" className="text-2xl font-semibold leading-snug">
+              {step.title}
+            </h1>
           </div>
-          <CautionGate
-            step={step}
-            unacknowledged={state.unacknowledged}
-            busy={busy}
-            onAcknowledge={() => void submit({ kind: 'acknowledge', stepId: step.id, cautionIds: state.unacknowledged })}
-          />
+          <CautionGate step={step} unacknowledged={state.unacknowledged} busy={busy} onAcknowledge={() => void submit({ kind: 'acknowledge', stepId: step.id, cautionIds: state.unacknowledged })} />
           {step.body?.html ? <div className="prose-bp" dangerouslySetInnerHTML={{ __html: step.body.html }} /> : null}
           {step.articleIds.length ? (
             <p className="text-sm">
               Read more:{' '}
               {step.articleIds.map((a, i) => (
-                <span key={a}>{i ? ', ' : ''}<Link className="font-semibold text-amber-deep underline" to={`/articles/${a}`}>article {a}</Link></span>
+                <span key={a}>
+                  {i ? ', ' : ''}
+                  <Link className="font-semibold text-amber-deep underline" to={`/articles/${a}`}>
+                    article {a}
+                  </Link>
+                </span>
               ))}
             </p>
           ) : null}
           <div className={disabled ? 'opacity-50' : ''} aria-disabled={disabled}>
             {step.kind === 'ask' ? <AskView key={step.id} step={step} disabled={disabled || busy} previous={state.previousAnswer} submit={submit} /> : null}
-            {step.kind === 'measure' ? <MeasureView key={`${step.id}-${applicator.data ? 'known' : 'unknown'}`} step={step} disabled={disabled || busy} system={system} submit={submit} specs={applicator.data} /> : null}
+            {step.kind === 'measure' ? (
+              <MeasureView key={`${step.id}-${applicator.data ? 'known' : 'unknown'}`} step={step} disabled={disabled || busy} system={system} submit={submit} specs={applicator.data} />
+            ) : null}
             {step.kind === 'try' ? <TryView key={step.id} step={step} disabled={disabled || busy} submit={submit} /> : null}
             {step.kind === 'finding' ? <FindingView key={step.id} step={step} disabled={disabled || busy} causes={(causes.data ?? []).filter((c) => c.active)} submit={submit} /> : null}
             {step.kind === 'handoff' ? <HandoffView step={step} walkId={walk.id} /> : null}
@@ -176,9 +199,17 @@ function Runner({ walk }: { walk: WalkDetail }) {
       )}
 
       <div className="mt-6 flex flex-wrap gap-2 border-t border-rule pt-4 text-sm">
-        <Button variant="secondary" onClick={() => setNoteOpen(true)}>Note or photo</Button>
-        <Button variant="quiet" onClick={() => setFlagOpen(true)}>This step is wrong or unclear</Button>
-        {!ended ? <Button variant="quiet" onClick={() => setAbandonOpen(true)}>Stop this walk</Button> : null}
+        <Button variant="secondary" onClick={() => setNoteOpen(true)}>
+          Note or photo
+        </Button>
+        <Button variant="quiet" onClick={() => setFlagOpen(true)}>
+          This step is wrong or unclear
+        </Button>
+        {!ended ? (
+          <Button variant="quiet" onClick={() => setAbandonOpen(true)}>
+            Stop this walk
+          </Button>
+        ) : null}
       </div>
       <details className="mt-4">
         <summary className="min-h-11 cursor-pointer font-semibold">The path so far</summary>
@@ -198,7 +229,14 @@ function Runner({ walk }: { walk: WalkDetail }) {
       {/* The dialogs load on first use: the first view of a step does not wait for them. */}
       {dialogsWanted ? (
         <Suspense fallback={null}>
-          <NoteDialog open={noteOpen} onClose={() => setNoteOpen(false)} onSave={async (text, fileIds) => { await run.addNote(step.id, text, fileIds); showToast('Note kept', 'ok'); }} />
+          <NoteDialog
+            open={noteOpen}
+            onClose={() => setNoteOpen(false)}
+            onSave={async (text, fileIds) => {
+              await run.addNote(step.id, text, fileIds);
+              showToast('Note kept', 'ok');
+            }}
+          />
           <FlagDialog open={flagOpen} onClose={() => setFlagOpen(false)} walkId={walk.id} stepId={step.id} />
           <AbandonDialog open={abandonOpen} onClose={() => setAbandonOpen(false)} walkId={walk.id} onStopped={() => navigate('/')} />
         </Suspense>
@@ -213,12 +251,15 @@ function WalkWatch({ walk, live }: { walk: WalkDetail; live: boolean }) {
   return (
     <div className="mx-auto max-w-2xl space-y-4">
       <p className="text-sm text-ink-soft">
-        {walk.userName ?? 'A colleague'} is walking “{walk.guide.title}”{walk.site ? ` at ${walk.site}` : ''}{walk.line ? `, ${walk.line}` : ''}{walk.applicator ? `, valve ${walk.applicator}` : ''}.
-        {live && walk.status === 'open' ? ' This page follows along every few seconds.' : ''}
+        {walk.userName ?? 'A colleague'} is walking “{walk.guide.title}”{walk.site ? ` at ${walk.site}` : ''}
+        {walk.line ? `, ${walk.line}` : ''}
+        {walk.applicator ? `, valve ${walk.applicator}` : ''}.{live && walk.status === 'open' ? ' This page follows along every few seconds.' : ''}
       </p>
       <h1 className="text-2xl font-semibold">{walk.status === 'open' ? `Now at: ${at?.title ?? '—'}` : walk.status === 'abandoned' ? 'Stopped' : 'Ended'}</h1>
       <WalkPath steps={steps} state={walk.state} />
-      <Link to={`/walks/${walk.id}/summary`} className="font-semibold text-amber-deep underline">The record</Link>
+      <Link to={`/walks/${walk.id}/summary`} className="font-semibold text-amber-deep underline">
+        The record
+      </Link>
     </div>
   );
 }

@@ -49,21 +49,36 @@ export function WalkStartPage() {
   }
 
   if (guide.isPending || (applicatorId !== null && registered.isPending)) return <LoadingBlock />;
-  if (guide.isError || !guide.data.published) return <Notice tone="error" title="This guide cannot be walked">{guide.isError ? errorMessage(guide.error) : 'It has no published version yet.'}</Notice>;
+  if (guide.isError || !guide.data.published)
+    return (
+      <Notice tone="error" title="This guide cannot be walked">
+        {guide.isError ? errorMessage(guide.error) : 'It has no published version yet.'}
+      </Notice>
+    );
   return (
     <form onSubmit={submit} className="mx-auto flex min-h-[70dvh] max-w-md flex-col">
-      <Link to={`/guides/${guideId}`} className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">About this guide</Link>
+      <Link to={`/guides/${guideId}`} className="inline-flex min-h-11 items-center text-sm font-semibold text-amber-deep underline">
+        About this guide
+      </Link>
       <p className="mt-3 font-semibold text-amber-deep">{guide.data.published.meta.symptom}</p>
       <h1 className="text-2xl font-semibold">{guide.data.published.meta.title}</h1>
       {onApplicator ? (
         <div className="mt-4 rounded-md border-2 border-fixed bg-fixed-wash p-3" data-applicator={registered.data.id}>
           <p className="text-sm font-semibold text-fixed">Recorded on</p>
           <p className="text-xl font-semibold">{registered.data.tag}</p>
-          <p>{registered.data.siteName} · {registered.data.lineName}</p>
+          <p>
+            {registered.data.siteName} · {registered.data.lineName}
+          </p>
         </div>
       ) : (
         <>
-          {applicatorId !== null ? <div className="mt-3"><Notice tone="warn" title="The scanned applicator was not found">{errorMessage(registered.error)} Type where you are instead.</Notice></div> : null}
+          {applicatorId !== null ? (
+            <div className="mt-3">
+              <Notice tone="warn" title="The scanned applicator was not found">
+                {errorMessage(registered.error)} Type where you are instead.
+              </Notice>
+            </div>
+          ) : null}
           <p className="mt-2 text-ink-soft">Where are you? All optional: it helps the next person and the manager.</p>
           <div className="mt-4 space-y-4">
             <TextField label="Site" value={site} onChange={(e) => setSite(e.target.value)} autoComplete="off" />
@@ -72,9 +87,15 @@ export function WalkStartPage() {
           </div>
         </>
       )}
-      {start.isError ? <div className="mt-4"><Notice tone="error" title={errorMessage(start.error)} /></div> : null}
+      {start.isError ? (
+        <div className="mt-4">
+          <Notice tone="error" title={errorMessage(start.error)} />
+        </div>
+      ) : null}
       <div className="mt-auto pt-6">
-        <Button type="submit" className="w-full !min-h-14 text-lg" busy={start.isPending}>Start walk</Button>
+        <Button type="submit" className="w-full !min-h-14 text-lg" busy={start.isPending}>
+          Start walk
+        </Button>
       </div>
     </form>
   );

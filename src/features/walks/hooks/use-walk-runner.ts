@@ -56,15 +56,16 @@ export function useWalkRunner(walk: WalkDetail) {
       setSync('sending');
       if (answers.length) {
         try {
-          const res = await sendBatch(walk.id, answers.map((a) => a.body));
+          const res = await sendBatch(
+            walk.id,
+            answers.map((a) => a.body),
+          );
           // The server's copy takes the entries over before the device copy goes, so the walk never
           // flickers back a step between the two.
           qc.setQueryData<WalkDetail>(walkKeys.detail(walk.id), (old) => {
             if (!old) return old;
             const known = new Set(old.answers.map((a) => a.id));
-            const added = answers
-              .filter((a) => !known.has(a.id))
-              .map((a, k) => ({ ...(a.body as unknown as WalkAnswer), seq: old.answerCount + k + 1, receivedAt: new Date().toISOString() }));
+            const added = answers.filter((a) => !known.has(a.id)).map((a, k) => ({ ...(a.body as unknown as WalkAnswer), seq: old.answerCount + k + 1, receivedAt: new Date().toISOString() }));
             return { ...old, ...res.walk, answers: [...old.answers, ...added] as WalkDetail['answers'], state: res.state };
           });
           for (const a of answers) await remove(a.id);
