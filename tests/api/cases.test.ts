@@ -264,8 +264,11 @@ describe('walking a guide with the caller and handing off', () => {
     const author = await t.signIn(['author', 'technician']);
     const c = await logCall();
     const walkId = await walkToHotMelt(support, 'not-fixed');
+    expect((await support.get(`/api/walks/${walkId}`).expect(200)).body.walk.caseId).toBeNull();
     const linked = await support.post(`/api/cases/${c.id}/walks`).send({ walkId });
     expect(linked.status).toBe(201);
+    // The runner's end screen leads back to the case.
+    expect((await support.get(`/api/walks/${walkId}`).expect(200)).body.walk.caseId).toBe(c.id);
     expect(linked.body.case.status).toBe('in-progress');
     expect(linked.body.case.walks).toEqual([
       expect.objectContaining({ id: walkId, status: 'ended', endKind: 'finding', outcome: 'not-fixed', stepTitle: 'Hot melt expanding in an overheated nozzle' }),

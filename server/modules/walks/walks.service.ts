@@ -167,6 +167,7 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
     const notes = await repo.notes(trx, walk.id);
     const flags: WalkFlagView[] = await repo.flags(trx, walk);
     const files = await filesById(user.organisationId, notes);
+    const forCase = await trx('case_walks').where({ walk_id: walk.id }).first('case_id');
     const owner = walk.userId === user.id;
     return {
       ...walkMeta(walk),
@@ -187,6 +188,7 @@ export function createWalksService(deps: { db: Knex; files: FilesService }) {
       flags,
       canAnswer: owner && walk.status === 'open' && can(user.roles, 'walks:run'),
       canAddNotes: owner && can(user.roles, 'walks:run') && notesOpen({ status: walk.status, endedAt: walk.endedAtDate }),
+      caseId: forCase ? Number(forCase.case_id) : null,
     };
   }
 

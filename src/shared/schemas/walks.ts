@@ -200,6 +200,8 @@ export interface WalkDetail extends WalkMeta {
   canAnswer: boolean;
   /** The viewer owns the walk and it is open or ended less than a day ago. */
   canAddNotes: boolean;
+  /** The support case this walk was run for (walked with a caller), if any. */
+  caseId: number | null;
 }
 
 export interface AnswerResult {

@@ -71,6 +71,7 @@ function Runner({ walk }: { walk: WalkDetail }) {
   const dialogsWanted = noteOpen || flagOpen || abandonOpen || dialogsLoaded.current;
   if (dialogsWanted) dialogsLoaded.current = true;
   const canRecordService = useCan('assets:record');
+  const canReadCases = useCan('cases:read');
   const steps = walk.guide.content.steps as Step[];
   const state = run.state;
   const stepId = state.at;
@@ -153,6 +154,11 @@ function Runner({ walk }: { walk: WalkDetail }) {
             <p className="rounded-md border border-amber-line bg-amber-wash p-3 text-center font-semibold text-amber-deep" role="status">
               Record service event: waiting for the walk to be saved…
             </p>
+          ) : null}
+          {walk.caseId !== null && canReadCases ? (
+            <Link to={`/cases/${walk.caseId}`} className="inline-flex min-h-14 w-full items-center justify-center rounded-md bg-amber text-lg font-semibold text-white hover:bg-amber-deep">
+              Back to case #{walk.caseId}
+            </Link>
           ) : null}
           <Link to={`/walks/${walk.id}/summary`} className="inline-flex min-h-14 w-full items-center justify-center rounded-md border border-rule-strong bg-paper-raised text-lg font-semibold">
             See the record
