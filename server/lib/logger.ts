@@ -3,8 +3,18 @@ import { randomUUID } from 'node:crypto';
 import pino, { type Logger } from 'pino';
 import { pinoHttp } from 'pino-http';
 
+/**
+ * Errors as pino writes them, without the database client some driver errors carry (`err.client`:
+ * its whole connection state, type tables and buffers, kilobytes per line and nothing to read).
+ */
+function errSerializer(err: unknown) {
+  const out = pino.stdSerializers.err(err as Error) as unknown as Record<string, unknown>;
+  if (out && typeof out === 'object') delete out.client;
+  return out;
+}
+
 export function createLogger(level: string): Logger {
-  return pino({ level, redact: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'] });
+  return pino({ level, redact: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'], serializers: { err: errSerializer } });
 }
 
 export function httpLogger(logger: Logger) {
