@@ -8,11 +8,11 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { SAMPLE_GUIDE, SAMPLE_GUIDE_META } from '../../src/shared/guides/sample';
 import { createApp, type BeadpathApp } from '../../server/app';
 import { loadConfig } from '../../server/config/env';
 import { createDb, type Db } from '../../server/db/knex';
 import { createLogger } from '../../server/lib/logger';
+import { publishSampleGuide } from '../helpers/guides';
 import { startTestApp, TEST_PASSWORD, type TestApp } from '../helpers/test-app';
 
 const SECRET = randomBytes(32).toString('hex');
@@ -41,22 +41,7 @@ async function secondServer(dbUrl: string) {
 beforeAll(async () => {
   a = await startTestApp({ SESSION_SECRET: SECRET });
   b = await secondServer(a.dbUrl);
-  guideId = await a.db.transaction(async (trx) => {
-    const [guide] = await trx('guides').insert({ organisation_id: a.organisationId }).returning('id');
-    const [version] = await trx('guide_versions')
-      .insert({
-        guide_id: guide.id,
-        number: 1,
-        state: 'published',
-        title: SAMPLE_GUIDE_META.title,
-        symptom: SAMPLE_GUIDE_META.symptom,
-        content: JSON.stringify(SAMPLE_GUIDE),
-        published_at: trx.fn.now(),
-      })
-      .returning('id');
-    await trx('guides').where({ id: guide.id }).update({ published_version_id: version.id });
-    return guide.id as number;
-  });
+  guideId = await publishSampleGuide(a.db, a.organisationId);
 });
 afterAll(async () => {
   if (b) {

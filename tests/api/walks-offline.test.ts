@@ -2,7 +2,7 @@
 // a lost response without duplicates, stopped at the first refused entry with the ones before kept.
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { SAMPLE_GUIDE, SAMPLE_GUIDE_META } from '../../src/shared/guides/sample';
+import { publishSampleGuide } from '../helpers/guides';
 import { startTestApp, type TestApp } from '../helpers/test-app';
 
 let t: TestApp;
@@ -12,22 +12,7 @@ let colleague: Agent;
 let guideId: number;
 
 async function publishGuide() {
-  return t.db.transaction(async (trx) => {
-    const [guide] = await trx('guides').insert({ organisation_id: t.organisationId }).returning('id');
-    const [version] = await trx('guide_versions')
-      .insert({
-        guide_id: guide.id,
-        number: 1,
-        state: 'published',
-        title: SAMPLE_GUIDE_META.title,
-        symptom: SAMPLE_GUIDE_META.symptom,
-        content: JSON.stringify(SAMPLE_GUIDE),
-        published_at: trx.fn.now(),
-      })
-      .returning('id');
-    await trx('guides').where({ id: guide.id }).update({ published_version_id: version.id });
-    return guide.id as number;
-  });
+  return publishSampleGuide(t.db, t.organisationId);
 }
 
 beforeAll(async () => {
