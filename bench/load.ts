@@ -42,7 +42,9 @@ const pct = (xs: number[], p: number) => {
 
 async function startApp(dbUrl: string) {
   const port = await freePort();
-  const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], {
+  // BENCH_NODE_FLAGS passes extra Node flags to the server, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof".
+  const flags = (process.env.BENCH_NODE_FLAGS ?? '').split(/\s+/).filter(Boolean);
+  const child = spawn(process.execPath, [...flags, '--import', 'tsx', join(root, 'server/index.ts')], {
     cwd: root,
     env: {
       ...process.env,
