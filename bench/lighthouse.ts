@@ -6,13 +6,12 @@
 // least 90 for performance and 100 for accessibility.
 // Env: LIGHTHOUSE_RUNS (default 1; with more, the median performance run of each page is kept),
 // LIGHTHOUSE_REPORTS=<folder> to keep each full JSON report.
-import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { mkdtempSync, rmSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
+import { startServerProcess, type ServerProcess } from '../scripts/lib/server-process';
 
 export const WALK_RUNNER_BUDGET = { performance: 90, accessibility: 100 } as const;
 
@@ -166,17 +165,7 @@ export function printScores(rows: PageScores[], log = console.log) {
   }
 }
 
-const freePort = () =>
-  new Promise<number>((done) => {
-    const srv = createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as { port: number }).port;
-      srv.close(() => done(port));
-    });
-  });
-
 async function main() {
-  const root = resolve(import.meta.dirname, '..');
   const { buildClientIfStale } = await import('../scripts/lib/build-client');
   const { dropDatabase, ensureCluster, ensureDatabase } = await import('../scripts/lib/cluster');
   const { createDb, migrateLatest } = await import('../server/db/knex');
@@ -188,7 +177,7 @@ async function main() {
   ensureDatabase(cluster, dbName);
   const dbUrl = cluster.urlFor(dbName);
   const filesDir = mkdtempSync(join(tmpdir(), 'beadpath-lighthouse-files-'));
-  let app: ChildProcess | null = null;
+  let app: ServerProcess | null = null;
   let failed = false;
   try {
     const db = createDb(dbUrl, { max: 4 });
@@ -203,34 +192,8 @@ async function main() {
 
     // The real server as it runs in production (compression, cache headers, CSP), in its own process
     // so Lighthouse's own work does not slow the answers down.
-    const port = await freePort();
-    app = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], {
-      cwd: root,
-      env: {
-        ...process.env,
-        DATABASE_URL: dbUrl,
-        SESSION_SECRET: randomBytes(32).toString('hex'),
-        PORT: String(port),
-        HOST: '127.0.0.1',
-        LOG_LEVEL: 'warn',
-        NODE_ENV: 'production',
-        MEILI_URL: '',
-        MEILI_API_KEY: '',
-        FILES_DIR: filesDir,
-        BEADPATH_DEMO: '1',
-      },
-      stdio: ['ignore', 'inherit', 'inherit'],
-    });
-    const base = `http://127.0.0.1:${port}`;
-    let up = false;
-    for (let i = 0; i < 300 && !up; i++) {
-      up = await fetch(`${base}/api/health`).then(
-        (r) => r.ok,
-        () => false,
-      );
-      if (!up) await new Promise((r) => setTimeout(r, 100));
-    }
-    if (!up) throw new Error('the app did not start within 30 s');
+    app = await startServerProcess({ DATABASE_URL: dbUrl, FILES_DIR: filesDir, BEADPATH_DEMO: '1' });
+    const base = app.base;
 
     const cookie = await signIn(base, 'tech@example.com', 'beadpath-demo');
     const targets = await technicianTargets(base, cookie);
@@ -246,7 +209,7 @@ async function main() {
       console.log('OK: the walk runner is within its Lighthouse budget');
     }
   } finally {
-    app?.kill();
+    await app?.stop();
     dropDatabase(cluster, dbName);
     rmSync(filesDir, { recursive: true, force: true });
   }

@@ -6,16 +6,15 @@
 // Proves zero failed requests and that every acknowledged answer is in the database exactly once.
 // Env: BENCH_TECHS (default 50), BENCH_SECONDS (default 20; each later phase a third of it, at
 // least 5 s). Uses its own database in the test cluster.
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { randomBytes, randomUUID } from 'node:crypto';
-import { createServer } from 'node:net';
-import { join, resolve } from 'node:path';
 import autocannon from 'autocannon';
 import { register } from 'tsx/esm/api';
 import { SAMPLE_GUIDE, SAMPLE_GUIDE_META } from '../src/shared/guides/sample';
 import { createDb, migrateLatest } from '../server/db/knex';
 import { hashPassword } from '../server/lib/passwords';
 import { dropDatabase, ensureCluster, ensureDatabase } from '../scripts/lib/cluster';
+import { startServerProcess } from '../scripts/lib/server-process';
 
 register();
 const TECHS = Number(process.env.BENCH_TECHS ?? 50);
@@ -23,16 +22,6 @@ const SECONDS = Number(process.env.BENCH_SECONDS ?? 20);
 /** autocannon's own default: a request without an answer after this long counts as failed. */
 const TIMEOUT_S = 10;
 const PASSWORD = 'bench-password-not-secret';
-const root = resolve(import.meta.dirname, '..');
-
-const freePort = () =>
-  new Promise<number>((done) => {
-    const srv = createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as { port: number }).port;
-      srv.close(() => done(port));
-    });
-  });
 
 const pct = (xs: number[], p: number) => {
   if (!xs.length) return NaN;
@@ -40,39 +29,8 @@ const pct = (xs: number[], p: number) => {
   return s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))];
 };
 
-async function startApp(dbUrl: string) {
-  const port = await freePort();
-  // BENCH_NODE_FLAGS passes extra Node flags to the server, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof".
-  const flags = (process.env.BENCH_NODE_FLAGS ?? '').split(/\s+/).filter(Boolean);
-  const child = spawn(process.execPath, [...flags, '--import', 'tsx', join(root, 'server/index.ts')], {
-    cwd: root,
-    env: {
-      ...process.env,
-      DATABASE_URL: dbUrl,
-      SESSION_SECRET: randomBytes(32).toString('hex'),
-      PORT: String(port),
-      HOST: '127.0.0.1',
-      LOG_LEVEL: 'warn',
-      NODE_ENV: 'production',
-      MEILI_URL: '',
-      MEILI_API_KEY: '',
-      LOGIN_RATE_LIMIT: '100000',
-    },
-    stdio: ['ignore', 'inherit', 'inherit'],
-  });
-  // Should this script die on an error, the app must not outlive it.
-  process.once('exit', () => child.kill());
-  const base = `http://127.0.0.1:${port}`;
-  for (let i = 0; i < 300; i++) {
-    try {
-      if ((await fetch(`${base}/api/health`)).ok) return { child, base };
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  child.kill();
-  throw new Error('the app did not start within 30 s');
+function startApp(dbUrl: string) {
+  return startServerProcess({ DATABASE_URL: dbUrl, LOGIN_RATE_LIMIT: '100000' });
 }
 
 async function signIn(base: string, email: string): Promise<string> {

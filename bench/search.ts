@@ -2,19 +2,19 @@
 // then measures /api/search (PostgreSQL engine, signed in as a technician, app in its own process)
 // against the textbook full-text query run by pgbench, at 16 and 4 concurrent clients.
 // Prints the figures and drops the database afterwards. Not part of `npm test`.
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { spawnSync, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { Agent, request } from 'node:http';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import { register } from 'tsx/esm/api';
 import { DEFAULT_TAGS } from '../src/shared/tags';
 import { createDb, migrateLatest, type Db } from '../server/db/knex';
 import { hashPassword } from '../server/lib/passwords';
 import { syncSearch } from '../server/modules/search/search.sync';
 import { dropDatabase, ensureCluster, ensureDatabase } from '../scripts/lib/cluster';
+import { startServerProcess } from '../scripts/lib/server-process';
 
 // Knex loads the .ts migrations through Node's own loader.
 register();
@@ -24,7 +24,6 @@ const GUIDES = 2_000;
 const VOCABULARY = 8_000;
 const QUERIES = 200;
 const PASSWORD = 'bench-password-not-secret';
-const root = resolve(import.meta.dirname, '..');
 
 // ---- deterministic randomness -------------------------------------------------------------------
 
@@ -278,46 +277,8 @@ function figures(label: string, clients: number, latencies: number[], seconds: n
   return { label, clients, queries: s.length, qps: s.length / seconds, mean: s.reduce((a, b) => a + b, 0) / s.length, p50: pct(s, 50), p95: pct(s, 95) };
 }
 
-async function freePort(): Promise<number> {
-  return new Promise((done) => {
-    const srv = createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as { port: number }).port;
-      srv.close(() => done(port));
-    });
-  });
-}
-
-async function startApp(dbUrl: string): Promise<{ child: ChildProcess; base: string }> {
-  const port = await freePort();
-  // BENCH_NODE_FLAGS passes extra Node flags to the server, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof".
-  const flags = (process.env.BENCH_NODE_FLAGS ?? '').split(/\s+/).filter(Boolean);
-  const child = spawn(process.execPath, [...flags, '--import', 'tsx', join(root, 'server/index.ts')], {
-    cwd: root,
-    env: {
-      ...process.env,
-      DATABASE_URL: dbUrl,
-      SESSION_SECRET: randomBytes(32).toString('hex'),
-      PORT: String(port),
-      HOST: '127.0.0.1',
-      LOG_LEVEL: 'warn',
-      NODE_ENV: 'production',
-      MEILI_URL: '',
-      MEILI_API_KEY: '',
-    },
-    stdio: ['ignore', 'inherit', 'inherit'],
-  });
-  const base = `http://127.0.0.1:${port}`;
-  for (let i = 0; i < 300; i++) {
-    try {
-      if ((await fetch(`${base}/api/health`)).ok) return { child, base };
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  child.kill();
-  throw new Error('the app did not start within 30 s');
+function startApp(dbUrl: string) {
+  return startServerProcess({ DATABASE_URL: dbUrl });
 }
 
 async function signIn(base: string): Promise<string> {

@@ -9,10 +9,7 @@
 //   C. Two server processes on one database: one session, one walk, continued on either.
 //   D. The search server going away: search answers from PostgreSQL.
 // Env: FAULTS_TECHS (default 20), FAULTS_DOWN_S (seconds PostgreSQL stays down, default 4).
-import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes, randomUUID } from 'node:crypto';
-import { createServer, type AddressInfo } from 'node:net';
-import { join, resolve } from 'node:path';
 import { SMTPServer } from 'smtp-server';
 import { register } from 'tsx/esm/api';
 import { SAMPLE_GUIDE, SAMPLE_GUIDE_META } from '../src/shared/guides/sample';
@@ -23,9 +20,9 @@ import { createDb, migrateLatest, type Db } from '../server/db/knex';
 import { hashPassword } from '../server/lib/passwords';
 import { startFakeMeili } from '../tests/fakes/meilisearch';
 import { dropDatabase, ensureCluster, ensureDatabase, stopCluster, type Cluster } from './lib/cluster';
+import { freePort, startServerProcess, type ServerProcess } from './lib/server-process';
 
 register();
-const root = resolve(import.meta.dirname, '..');
 const TECHS = Number(process.env.FAULTS_TECHS ?? 20);
 const DOWN_S = Number(process.env.FAULTS_DOWN_S ?? 4);
 const PASSWORD = 'faults-password-not-secret';
@@ -45,15 +42,6 @@ function record(check: string, ok: boolean, detail: string) {
   results.push({ check, ok, detail });
   console.log(`${ok ? 'PASS' : 'FAIL'}  ${check}: ${detail}`);
 }
-
-const freePort = () =>
-  new Promise<number>((done) => {
-    const srv = createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as AddressInfo).port;
-      srv.close(() => done(port));
-    });
-  });
 
 // ---- the private cluster ---------------------------------------------------------------------
 
@@ -112,41 +100,11 @@ async function seed(db: Db, techs: number, label: string) {
 
 // ---- server processes ------------------------------------------------------------------------
 
-interface AppProcess {
-  child: ChildProcess;
-  base: string;
-  /** The process's own log lines, for the report when something fails. */
-  log: string[];
-  stop: () => Promise<void>;
-}
+type AppProcess = ServerProcess;
 
-async function startApp(env: Record<string, string>): Promise<AppProcess> {
-  const port = await freePort();
-  const log: string[] = [];
-  const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], {
-    cwd: root,
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', NODE_ENV: 'production', MEILI_URL: '', MEILI_API_KEY: '', LOGIN_RATE_LIMIT: '100000', FAKE_SMTP: '1', ...env },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  // Should this script die on an error, no server may outlive it.
-  process.once('exit', () => child.kill());
-  for (const s of [child.stdout!, child.stderr!]) s.on('data', (b: Buffer) => log.push(...b.toString().split('\n').filter(Boolean)));
-  const base = `http://127.0.0.1:${port}`;
-  const stop = async () => {
-    if (child.exitCode !== null || child.signalCode !== null) return;
-    await new Promise((r) => (child.once('exit', r), child.kill('SIGTERM')));
-  };
-  for (let i = 0; i < 300; i++) {
-    if (child.exitCode !== null) break;
-    try {
-      if ((await fetch(`${base}/api/health`)).ok) return { child, base, log, stop };
-    } catch {
-      // not listening yet
-    }
-    await sleep(100);
-  }
-  await stop();
-  throw new Error(`the server did not start within 30 s:\n${log.slice(-20).join('\n')}`);
+/** A server whose log is kept for the report when something fails. */
+function startApp(env: Record<string, string>): Promise<AppProcess> {
+  return startServerProcess({ LOGIN_RATE_LIMIT: '100000', FAKE_SMTP: '1', ...env }, { captureLog: true });
 }
 
 interface Reply {
