@@ -21,6 +21,15 @@ const HEAVY: Record<string, RegExp> = {
   dagre: /dagre/i,
 };
 
+// The walk runner's first view does without these: zod (the schemas' validation) and the calculators
+// load only when a walk answers a Measure step that routes through a calculator. Each marker is text
+// that survives minification: names zod 4 builds into its classes and messages, calculator titles
+// and a message of the calculator runner.
+const RUNNER_LATER: Record<string, RegExp> = {
+  zod: /\$ZodType|Too big: expected/,
+  calculators: /Needle flow \(Newtonian fluid\)|Viscosity at another temperature|must be given as a number and a unit/,
+};
+
 describe.skipIf(!built)('bundle budget on the built client', () => {
   const pages = built ? measurePages(dist) : [];
 
@@ -32,6 +41,15 @@ describe.skipIf(!built)('bundle budget on the built client', () => {
     for (const p of pages) {
       const code = p.files.map((f) => readFileSync(join(dist, f), 'utf8')).join('\n');
       for (const [name, marker] of Object.entries(HEAVY)) expect(marker.test(code), `${name} in ${p.name}`).toBe(false);
+    }
+  });
+
+  it('when the walk runner loads, then neither zod nor the calculators come with it', () => {
+    const runner = pages.find((p) => p.name === 'walk runner');
+    expect(runner).toBeDefined();
+    for (const file of runner!.files) {
+      const code = readFileSync(join(dist, file), 'utf8');
+      for (const [name, marker] of Object.entries(RUNNER_LATER)) expect(marker.test(code), `${name} in ${file}`).toBe(false);
     }
   });
 });

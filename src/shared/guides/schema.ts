@@ -3,6 +3,9 @@
 import { z } from 'zod';
 import { HAZARD_KEYS, type Hazard } from '../tags';
 import { QUANTITY_KINDS, type QuantityKind } from '../units';
+import { STEP_KINDS } from './labels';
+
+export { END_STEP_KINDS, STEP_KIND_LABELS, STEP_KINDS, isEndStep, type StepKind } from './labels';
 
 /**
  * Limits enforced by the schemas and by validateGuide. They keep a guide small enough to walk on
@@ -50,19 +53,6 @@ export const GUIDE_LIMITS = {
 export const ID_PATTERN = /^[a-z0-9-]{1,40}$/;
 /** Cause codes and tag slugs, as in tags.ts. */
 export const CODE_PATTERN = /^[a-z0-9-]{1,60}$/;
-
-export const STEP_KINDS = ['ask', 'measure', 'try', 'finding', 'handoff'] as const;
-export type StepKind = (typeof STEP_KINDS)[number];
-/** Finding and Hand-off end a walk; the others route on. */
-export const END_STEP_KINDS: readonly StepKind[] = ['finding', 'handoff'];
-
-export const STEP_KIND_LABELS: Record<StepKind, string> = {
-  ask: 'Ask',
-  measure: 'Measure',
-  try: 'Try',
-  finding: 'Finding',
-  handoff: 'Hand-off',
-};
 
 type Mode = 'strict' | 'draft';
 type Issue = { code?: string; input?: unknown; keys?: string[] };
@@ -365,8 +355,3 @@ export const GuideMeta = obj('Guide', guideMetaShape);
 /** The fields of GuideMeta, for schemas that carry a guide's metadata plus more. */
 export const GuideMetaFields = guideMetaShape;
 export type GuideMeta = z.infer<typeof GuideMeta>;
-
-/** True for the kinds that end a walk. */
-export function isEndStep(step: { kind: StepKind }): boolean {
-  return END_STEP_KINDS.includes(step.kind);
-}

@@ -1,13 +1,9 @@
 // Zod schemas and types for the entries of a walk's answer log: what the runner sends (and
 // queues offline), what the server stores once per idempotency key, and what replay reads.
 import { z } from 'zod';
+import { ANSWER_ID_PATTERN, FINDING_OUTCOMES, WALK_LIMITS } from './answer-kinds';
 
-/** Client-made idempotency key: a UUID fits, so does any other short random token. */
-export const ANSWER_ID_PATTERN = /^[A-Za-z0-9_-]{8,64}$/;
-export const WALK_LIMITS = { note: 2000, calculatorInputs: 20, nameLength: 60 } as const;
-
-export const FINDING_OUTCOMES = ['fixed', 'not-fixed', 'fixed-by-other'] as const;
-export type FindingOutcome = (typeof FINDING_OUTCOMES)[number];
+export { ANSWER_ID_PATTERN, FINDING_OUTCOMES, WALK_LIMITS, isRoutingAnswer, type FindingOutcome } from './answer-kinds';
 
 const base = {
   id: z.string({ error: 'Answer id is required' }).regex(ANSWER_ID_PATTERN, 'Answer id must be 8 to 64 letters, digits, hyphens or underscores'),
@@ -86,7 +82,3 @@ export type BackEntry = z.infer<typeof BackEntry>;
 export type WalkAnswer = z.infer<typeof WalkAnswer>;
 /** The entries that answer a step and so decide where the walk goes next. */
 export type RoutingAnswer = ChoiceAnswer | ReadingAnswer | TryAnswer | FindingOutcomeAnswer;
-
-export function isRoutingAnswer(answer: WalkAnswer): answer is RoutingAnswer {
-  return answer.kind !== 'acknowledge' && answer.kind !== 'back';
-}

@@ -1,9 +1,12 @@
 // A Measure step worked out with the step's calculator: the fixed and prefilled inputs, the
-// technician's reading, the output that routes the walk and the band it falls in.
+// technician's reading, the output that routes the walk and the band it falls in. Loaded lazily,
+// it brings the calculators with it.
 import { useMemo, useState } from 'react';
-import { getCalculator } from '@/shared/calculators';
+import { getCalculator, type Calculator } from '@/shared/calculators';
 import type { Step } from '@/shared/guides/schema';
-import { prefillFromApplicator, type ApplicatorSpecs, type RoutingAnswer } from '@/shared/walks';
+import type { RoutingAnswer } from '@/shared/walks/answers';
+import { prefillFromApplicator, type ApplicatorSpecs } from '@/shared/walks/prefill';
+import { STEP_CALCULATORS } from '@/shared/walks/walk-path';
 import { unitLabel, type UnitSystem } from '@/shared/units';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/feedback';
@@ -11,23 +14,25 @@ import { CalculatorFields } from '@/components/calculator/calculator-fields';
 import { initialState, type FormState } from '@/components/calculator/form-state';
 import { useCalculation } from '@/components/calculator/use-calculation';
 import { formatValue } from '@/components/calculator/calculator-results';
-import { BandPreview, type Submit } from './step-views';
+import { BandPreview, PlainMeasure, type Submit } from './step-views';
 
-export function MeasureWithCalculator({
-  step,
-  disabled,
-  system,
-  submit,
-  specs,
-}: {
+type Props = {
   step: Extract<Step, { kind: 'measure' }>;
   disabled: boolean;
   system: UnitSystem;
   submit: Submit;
   specs?: ApplicatorSpecs;
-}) {
+};
+
+export function MeasureWithCalculator(props: Props) {
+  const calc = getCalculator(props.step.calculator!.id);
+  // A calculator this build does not know: the plain reading, which the server then judges.
+  if (!calc) return <PlainMeasure step={props.step} disabled={props.disabled} system={props.system} submit={props.submit} calculators={STEP_CALCULATORS} />;
+  return <CalculatorMeasure {...props} calc={calc} />;
+}
+
+function CalculatorMeasure({ step, disabled, system, submit, specs, calc }: Props & { calc: Calculator }) {
   const ref = step.calculator!;
-  const calc = getCalculator(ref.id)!;
   const fixedNames = Object.keys(ref.fixedInputs);
   const shown = useMemo(
     () => ({ ...calc, inputs: calc.inputs.filter((i) => !fixedNames.includes(i.name)).map((i) => (i.name === ref.readingInput ? { ...i, label: step.reading.label || i.label } : i)) }),
@@ -103,7 +108,7 @@ export function MeasureWithCalculator({
           {w.message}
         </p>
       ))}
-      <BandPreview step={step} answer={tentative} />
+      <BandPreview step={step} answer={tentative} calculators={STEP_CALCULATORS} />
       {error ? <Notice tone="error" title={error} /> : null}
       <Button
         className="w-full !min-h-14 text-lg"

@@ -2,10 +2,11 @@
 // step's calculator inline), a Try's two outcomes, a Finding's checklist, a Hand-off's message.
 import { lazy, Suspense, useState } from 'react';
 import { Link } from 'react-router';
-import { getCalculator } from '@/shared/calculators';
 import { describeBand } from '@/shared/guides/bands';
 import type { Step } from '@/shared/guides/schema';
-import { nextStepFor, type ApplicatorSpecs, type RoutingAnswer } from '@/shared/walks';
+import type { RoutingAnswer } from '@/shared/walks/answers';
+import type { ApplicatorSpecs } from '@/shared/walks/prefill';
+import { WITHOUT_CALCULATORS, nextStepFor, type StepCalculators } from '@/shared/walks/walk-path-core';
 import { HAZARDS, type Hazard } from '@/shared/tags';
 import { unitLabel, unitsFor, type UnitSystem } from '@/shared/units';
 import { Button } from '@/components/ui/button';
@@ -74,9 +75,10 @@ export function TryView({ step, disabled, submit }: { step: Extract<Step, { kind
   );
 }
 
-export function BandPreview({ step, answer }: { step: Extract<Step, { kind: 'measure' }>; answer: RoutingAnswer | null }) {
+/** Where a reading would go. A step with a calculator needs `calculators` (its form has them loaded). */
+export function BandPreview({ step, answer, calculators = WITHOUT_CALCULATORS }: { step: Extract<Step, { kind: 'measure' }>; answer: RoutingAnswer | null; calculators?: StepCalculators }) {
   if (!answer) return null;
-  const r = nextStepFor(step as Step, answer);
+  const r = nextStepFor(calculators, step as Step, answer);
   if (!r.ok) return <p className="text-sm font-semibold text-danger">{r.message}</p>;
   const band = step.bands.find((b) => b.id === r.bandId);
   return (
@@ -88,12 +90,12 @@ export function BandPreview({ step, answer }: { step: Extract<Step, { kind: 'mea
   );
 }
 
-// The calculator form is only needed on Measure steps that use one, so it loads when first needed.
+// The calculator form (and the calculators) are only needed on Measure steps that use one, so
+// they load when first needed.
 const MeasureWithCalculator = lazy(() => import('./measure-with-calculator').then((m) => ({ default: m.MeasureWithCalculator })));
 
 export function MeasureView({ step, disabled, system, submit, specs }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit; specs?: ApplicatorSpecs }) {
-  const calc = step.calculator ? getCalculator(step.calculator.id) : undefined;
-  return calc ? (
+  return step.calculator ? (
     <Suspense fallback={<Skeleton className="h-48 w-full" />}>
       <MeasureWithCalculator step={step} disabled={disabled} system={system} submit={submit} specs={specs} />
     </Suspense>
@@ -102,7 +104,19 @@ export function MeasureView({ step, disabled, system, submit, specs }: { step: E
   );
 }
 
-function PlainMeasure({ step, disabled, system, submit }: { step: Extract<Step, { kind: 'measure' }>; disabled: boolean; system: UnitSystem; submit: Submit }) {
+export function PlainMeasure({
+  step,
+  disabled,
+  system,
+  submit,
+  calculators,
+}: {
+  step: Extract<Step, { kind: 'measure' }>;
+  disabled: boolean;
+  system: UnitSystem;
+  submit: Submit;
+  calculators?: StepCalculators;
+}) {
   const units = unitsFor(step.reading.kind, system);
   const [text, setText] = useState('');
   const [unit, setUnit] = useState(units.includes(step.reading.unit) && system === 'metric' ? step.reading.unit : units[0]);
@@ -132,7 +146,7 @@ function PlainMeasure({ step, disabled, system, submit }: { step: Extract<Step, 
           ))}
         </select>
       </div>
-      <BandPreview step={step} answer={tentative} />
+      <BandPreview step={step} answer={tentative} calculators={calculators} />
       {error ? <Notice tone="error" title={error} /> : null}
       <Button className="w-full !min-h-14 text-lg" disabled={disabled || !tentative} onClick={async () => setError(await submit({ kind: 'reading', stepId: step.id, value, unit }))}>
         Use this reading

@@ -1,6 +1,7 @@
 // The path a walk has taken: each step with the answer given, in plain words.
-import { STEP_KIND_LABELS, type Step } from '@/shared/guides/schema';
-import type { WalkState } from '@/shared/walks';
+import { STEP_KIND_LABELS } from '@/shared/guides/labels';
+import type { Step } from '@/shared/guides/schema';
+import type { WalkState } from '@/shared/walks/walk-path-core';
 import { unitLabel } from '@/shared/units';
 
 function answerWords(step: Step, entry: WalkState['path'][number]): string {

@@ -3,12 +3,14 @@
 import { lazy, Suspense, useEffect, useRef, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router';
 import { useQuery } from '@tanstack/react-query';
-import { STEP_KIND_LABELS, type Step } from '@/shared/guides/schema';
-import { previousStepId } from '@/shared/walks';
+import { STEP_KIND_LABELS } from '@/shared/guides/labels';
+import type { Step } from '@/shared/guides/schema';
+import { previousStepId } from '@/shared/walks/walk-path-core';
 import type { WalkDetail } from '@/shared/schemas/walks';
 import { api, ApiError, errorMessage } from '@/lib/api-client';
 import { useCan, useMe } from '@/lib/auth';
 import { showToast } from '@/lib/toasts';
+import { useAfterFirstView } from '@/lib/use-after-first-view';
 import { Button } from '@/components/ui/button';
 import { LoadingBlock, Notice } from '@/components/ui/feedback';
 import { NotFoundPage } from '@/components/errors/route-error';
@@ -61,7 +63,15 @@ function Runner({ walk }: { walk: WalkDetail }) {
   const navigate = useNavigate();
   const run = useWalkRunner(walk);
   const applicator = useWalkApplicator(walk.applicatorId ?? null);
-  const causes = useQuery({ queryKey: ['causes'], queryFn: () => api<{ causes: { code: string; label: string; active: boolean }[] }>('/api/causes').then((r) => r.causes), staleTime: 300_000 });
+  // The causes list serves only a Finding's "fixed by something else"; read once the step is up, so
+  // it is on the phone before the walk reaches a Finding (with or without signal).
+  const afterFirstView = useAfterFirstView();
+  const causes = useQuery({
+    queryKey: ['causes'],
+    queryFn: () => api<{ causes: { code: string; label: string; active: boolean }[] }>('/api/causes').then((r) => r.causes),
+    staleTime: 300_000,
+    enabled: afterFirstView,
+  });
   const [busy, setBusy] = useState(false);
   const [noteOpen, setNoteOpen] = useState(false);
   const [flagOpen, setFlagOpen] = useState(false);
@@ -111,6 +121,8 @@ function Runner({ walk }: { walk: WalkDetail }) {
     return () => clearTimeout(t);
   }, [serviceLink, sync, flush]);
 
+  // The walk's readings go through a calculator that is still loading.
+  if (!run.ready) return <LoadingBlock label="Opening the walk" />;
   if (!step) return <Notice tone="error" title="This walk points at a step its guide does not have." />;
 
   return (

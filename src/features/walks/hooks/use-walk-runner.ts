@@ -1,9 +1,12 @@
 // The phone runner's engine: the server's answer log plus what waits on this device, replayed
 // with the same path logic the server uses, so the walk moves on at once with or without signal.
 // Entries go to the server in order and are accepted once each (their ids are idempotency keys).
+// The calculators load only for a walk whose log has a reading for a Measure step that uses one;
+// until they arrive the runner is not ready, rather than show a path the server would not.
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
-import { canAnswer, replayPath, type WalkAnswer } from '@/shared/walks';
+import type { WalkAnswer } from '@/shared/walks/answers';
+import { WITHOUT_CALCULATORS, canAnswer, logNeedsCalculators, replayPath, type StepCalculators, type WalkState } from '@/shared/walks/walk-path-core';
 import type { GuideContent } from '@/shared/guides/schema';
 import type { BatchRejectedDetails, WalkDetail } from '@/shared/schemas/walks';
 import { ApiError } from '@/lib/api-client';
@@ -15,6 +18,24 @@ export type SyncState = 'saved' | 'sending' | 'waiting' | 'error';
 // Distributive, so each kind of entry keeps its own fields.
 type Without<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
 export type NewAnswer = Without<WalkAnswer, 'id' | 'answeredAt'>;
+
+let calculatorsLoad: Promise<StepCalculators> | undefined;
+let calculatorsLoaded: StepCalculators | null = null;
+
+/** The calculators with the path logic's binding, fetched once per page load. */
+function loadStepCalculators(): Promise<StepCalculators> {
+  calculatorsLoad ??= import('@/shared/walks/walk-path').then(
+    (m) => (calculatorsLoaded = m.STEP_CALCULATORS),
+    (err: unknown) => {
+      calculatorsLoad = undefined;
+      throw err;
+    },
+  );
+  return calculatorsLoad;
+}
+
+/** Stands in for the walk while the calculators load; the runner shows a loading state then. */
+const LOADING: WalkState = { path: [], current: null, at: null, ended: null, unacknowledged: [], acknowledged: {}, problems: [] };
 
 export function useWalkRunner(walk: WalkDetail) {
   const qc = useQueryClient();
@@ -37,7 +58,29 @@ export function useWalkRunner(walk: WalkDetail) {
     const local = queue.filter((q) => q.type === 'answer' && !serverIds.has(q.id)).map((q) => q.body as unknown as WalkAnswer);
     return [...(walk.answers as WalkAnswer[]), ...local];
   }, [walk.answers, queue, serverIds]);
-  const state = useMemo(() => replayPath(content, log), [content, log]);
+  const needsCalculators = useMemo(() => logNeedsCalculators(content, log), [content, log]);
+  const [calculators, setCalculators] = useState<StepCalculators | null>(() => calculatorsLoaded);
+  const [loadAttempt, setLoadAttempt] = useState(0);
+  useEffect(() => {
+    if (!needsCalculators || calculators) return;
+    let live = true;
+    let retry: ReturnType<typeof setTimeout> | undefined;
+    loadStepCalculators().then(
+      (loaded) => {
+        if (live) setCalculators(loaded);
+      },
+      // Offline with no cached copy: try again in a while (the service worker normally has it).
+      () => {
+        if (live) retry = setTimeout(() => setLoadAttempt((n) => n + 1), 3000);
+      },
+    );
+    return () => {
+      live = false;
+      clearTimeout(retry);
+    };
+  }, [needsCalculators, calculators, loadAttempt]);
+  const ready = !needsCalculators || calculators !== null;
+  const state = useMemo(() => (ready ? replayPath(calculators ?? WITHOUT_CALCULATORS, content, log) : LOADING), [ready, calculators, content, log]);
 
   const flush = useCallback(async (): Promise<void> => {
     if (flushing.current) {
@@ -118,14 +161,22 @@ export function useWalkRunner(walk: WalkDetail) {
   const answer = useCallback(
     async (partial: NewAnswer): Promise<string | null> => {
       const entry = { ...partial, id: newClientId(), answeredAt: new Date().toISOString() } as WalkAnswer;
-      const check = canAnswer(content, log, entry);
+      let using = calculators ?? WITHOUT_CALCULATORS;
+      if (!calculators && logNeedsCalculators(content, [...log, entry])) {
+        const loaded = await loadStepCalculators().catch(() => null);
+        if (!loaded) return 'The calculators could not be loaded; check the connection and try again.';
+        // Set before the entry is queued, so the walk does not show its loading state in between.
+        setCalculators(loaded);
+        using = loaded;
+      }
+      const check = canAnswer(using, content, log, entry);
       if (!check.ok) return check.message;
       await enqueue({ id: entry.id, walkId: walk.id, type: 'answer', body: entry as unknown as Record<string, unknown>, queuedAt: Date.now() });
       setError(null);
       void flush();
       return null;
     },
-    [content, log, walk.id, flush],
+    [calculators, content, log, walk.id, flush],
   );
 
   const addNote = useCallback(
@@ -138,5 +189,5 @@ export function useWalkRunner(walk: WalkDetail) {
   );
 
   const waiting = queue.filter((q) => !serverIds.has(q.id)).length;
-  return { state, log, answer, addNote, sync: waiting ? (sync === 'sending' ? 'sending' : 'waiting') : sync, waiting, error, clearError: () => setError(null), flush };
+  return { state, ready, log, answer, addNote, sync: waiting ? (sync === 'sending' ? 'sending' : 'waiting') : sync, waiting, error, clearError: () => setError(null), flush };
 }
