@@ -11,6 +11,7 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Config } from './config/env';
+import { loadClientShell } from './lib/client-shell';
 import { sameOriginGuard } from './lib/csrf';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 import { httpLogger } from './lib/logger';
@@ -55,6 +56,10 @@ export interface AppDeps {
 export interface BeadpathApp extends Express {
   locals: Express['locals'] & { routeTable: RouteInfo[]; filesDir: string; storage: FileStorage; mail: MailService; close: () => Promise<void> };
 }
+
+/** The session cookie's name. */
+export const SESSION_COOKIE = 'beadpath.sid';
+const hasSessionCookie = (header: string | undefined) => Boolean(header && header.split(';').some((c) => c.trim().startsWith(`${SESSION_COOKIE}=`)));
 
 export const defaultClientDir = fileURLToPath(new URL('../dist', import.meta.url));
 export const defaultFilesDir = fileURLToPath(new URL('../.data/files', import.meta.url));
@@ -124,7 +129,7 @@ export function createApp(deps: AppDeps): BeadpathApp {
   api.use(sameOriginGuard(config.PUBLIC_ORIGIN));
   api.use(
     session({
-      name: 'beadpath.sid',
+      name: SESSION_COOKIE,
       secret: config.SESSION_SECRET,
       store,
       resave: false,
@@ -185,9 +190,11 @@ export function createApp(deps: AppDeps): BeadpathApp {
         },
       }),
     );
-    app.get('/{*splat}', (_req, res) => {
-      res.setHeader('Cache-Control', 'no-cache');
-      res.sendFile(join(clientDir, 'index.html'));
+    const shell = loadClientShell(clientDir);
+    app.get('/{*splat}', (req, res) => {
+      // The page differs with the address and with the session cookie's presence (its hints).
+      res.setHeader('Cache-Control', 'no-cache, private');
+      res.type('html').send(shell.html(req.path, hasSessionCookie(req.headers.cookie)));
     });
   }
 

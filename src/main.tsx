@@ -8,12 +8,14 @@ import '@fontsource/lora/700.css';
 import './styles.css';
 import { createQueryClient } from '@/lib/query-client';
 import { router } from '@/app/router';
+import { whenIdle } from '@/lib/use-after-first-view';
 
 const queryClient = createQueryClient();
 
-// After the page is up, so installing the offline copy never competes with the first view.
+// After the page is up and the browser idle, so installing the offline copy never competes with
+// the first view.
 window.addEventListener('load', () => {
-  void import('@/lib/service-worker').then((m) => m.startServiceWorker());
+  whenIdle(() => void import('@/lib/service-worker').then((m) => m.startServiceWorker()));
 });
 
 createRoot(document.getElementById('root')!).render(

@@ -7,6 +7,7 @@ import { NotFoundPage, RouteError } from '@/components/errors/route-error';
 import { RequirePermission } from './require-permission';
 import { lazyPage } from './lazy-page';
 import { fetchEarly } from '@/lib/early-fetch';
+import { earlyReads, walkIdOf } from '@/shared/early-reads';
 
 // Pages load on first visit, so no page carries another's editors, charts, tables or forms: the
 // entry holds React, the router, the query cache and the signed-in frame. The service worker
@@ -31,9 +32,8 @@ const AuditPage = lazyPage(() => import('@/features/admin/components/audit-page'
 const InsightsRoutes = lazyPage(() => import('@/features/insights/components/insights-routes'), 'InsightsRoutes');
 // Home is fetched as soon as the app starts when it is the page asked for, alongside the session
 // check, rather than after it.
-const homeModule = () => import('./routes/home');
-if (window.location.pathname === paths.home) void homeModule();
-const HomeRoute = lazyPage(homeModule, 'HomeRoute');
+const HomeRoute = lazyPage(() => import('./routes/home'), 'HomeRoute');
+if (window.location.pathname === paths.home) void HomeRoute.preload();
 const SignInPage = lazyPage(() => import('@/features/auth/components/sign-in-page'), 'SignInPage');
 const InvitePage = lazyPage(() => import('@/features/auth/components/invite-page'), 'InvitePage');
 const ResetPasswordPage = lazyPage(() => import('@/features/auth/components/reset-password-page'), 'ResetPasswordPage');
@@ -41,16 +41,14 @@ const HelpPage = lazyPage(() => import('./routes/help'), 'HelpPage');
 const WalkStartPage = lazyPage(() => import('@/features/walks/components/walk-start-page'), 'WalkStartPage');
 // The walk runner likewise, when a walk's address is opened directly (a link, a reload in the
 // field), and the walk itself: its first view then waits for one round trip, not three.
-const walkRunnerModule = () => import('@/features/walks/components/walk-runner-page');
-const openedWalk = /^\/walks\/(\d+)\/?$/.exec(window.location.pathname);
-if (openedWalk) {
-  void walkRunnerModule();
-  fetchEarly(`/api/walks/${openedWalk[1]}`);
-}
-const WalkRunnerPage = lazyPage(walkRunnerModule, 'WalkRunnerPage');
+const WalkRunnerPage = lazyPage(() => import('@/features/walks/components/walk-runner-page'), 'WalkRunnerPage');
+if (walkIdOf(window.location.pathname) !== null) void WalkRunnerPage.preload();
+// The session check, and the walk on a walk's address, start now too (src/shared/early-reads.ts).
+for (const path of earlyReads(window.location.pathname)) fetchEarly(path);
 const WalkSummaryPage = lazyPage(() => import('@/features/walks/components/walk-summary-page'), 'WalkSummaryPage');
 const SearchPage = lazyPage(() => import('@/features/search/components/search-page'), 'SearchPage');
 const SearchAdminPage = lazyPage(() => import('@/features/search/components/search-page'), 'SearchAdminPage');
+if (window.location.pathname === paths.search) void SearchPage.preload();
 
 export const router = createBrowserRouter([
   {

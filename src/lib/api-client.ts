@@ -22,19 +22,36 @@ export interface RequestOptions {
 }
 
 export async function api<T>(path: string, opts: RequestOptions = {}): Promise<T> {
-  let res: Response;
-  try {
-    res = await fetch(path, {
+  return readAnswer<T>(
+    sendRequest(path, {
       method: opts.method ?? 'GET',
       credentials: 'same-origin',
       headers: opts.body === undefined ? { Accept: 'application/json' } : { Accept: 'application/json', 'Content-Type': 'application/json' },
       body: opts.body === undefined ? undefined : JSON.stringify(opts.body),
       signal: opts.signal,
-    });
+    }),
+  );
+}
+
+/**
+ * A GET with no headers of our own, so that it takes over the response of a preload hint the server
+ * put in the page for it (the browser reuses a preloaded response only for a request like the hint's).
+ */
+export function apiPlainGet<T>(path: string): Promise<T> {
+  return readAnswer<T>(sendRequest(path, { credentials: 'same-origin' }));
+}
+
+async function sendRequest(path: string, init: RequestInit): Promise<Response> {
+  try {
+    return await fetch(path, init);
   } catch (err) {
     if ((err as Error).name === 'AbortError') throw err;
     throw new ApiError(0, 'network', 'Beadpath cannot reach the server. Check the connection and try again.');
   }
+}
+
+async function readAnswer<T>(sent: Promise<Response>): Promise<T> {
+  const res = await sent;
   if (res.status === 204) return undefined as T;
   const text = await res.text();
   let data: unknown = undefined;

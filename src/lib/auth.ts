@@ -2,7 +2,9 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { can, type Permission, type Role } from '@/shared/permissions';
 import type { SessionUser } from '@/shared/schemas/auth';
+import { ME_PATH } from '@/shared/early-reads';
 import { api } from './api-client';
+import { forgetEarly, takeEarly } from './early-fetch';
 
 export interface Me {
   user: SessionUser;
@@ -16,7 +18,8 @@ export const authKeys = {
 export const meQuery = queryOptions({
   queryKey: authKeys.me,
   queryFn: async (): Promise<Me | null> => {
-    const me = await api<Me | { user: null }>('/api/auth/me');
+    // Started with the app (src/app/router.tsx) when the page was opened; afterwards read afresh.
+    const me = await (takeEarly<Me | { user: null }>(ME_PATH) ?? api<Me | { user: null }>(ME_PATH));
     return me.user ? (me as Me) : null;
   },
   staleTime: 60_000,
@@ -45,6 +48,7 @@ export function useLogin() {
     mutationFn: (input: { email: string; password: string }) => api<Me>('/api/auth/login', { method: 'POST', body: input }),
     onSuccess: (me) => {
       forgetOfflineCopies();
+      forgetEarly();
       qc.clear();
       qc.setQueryData(authKeys.me, me);
     },
@@ -58,6 +62,7 @@ export function useLogout() {
     mutationFn: () => api<void>('/api/auth/logout', { method: 'POST' }),
     onSuccess: () => {
       forgetOfflineCopies();
+      forgetEarly();
       qc.clear();
       qc.setQueryData(authKeys.me, null);
     },

@@ -19,7 +19,18 @@ beforeAll(async () => {
   t = await startTestApp();
   const dir = mkdtempSync(join(tmpdir(), 'beadpath-client-'));
   mkdirSync(join(dir, 'assets'));
-  writeFileSync(join(dir, 'index.html'), '<!doctype html><title>Beadpath</title><div id="root"></div>');
+  writeFileSync(join(dir, 'index.html'), '<!doctype html><html><head><title>Beadpath</title></head><body><div id="root"></div></body></html>');
+  // A build manifest as Vite writes it: the walk runner's chunk imports a shared chunk and the entry.
+  mkdirSync(join(dir, '.vite'));
+  writeFileSync(
+    join(dir, '.vite', 'manifest.json'),
+    JSON.stringify({
+      'index.html': { file: 'assets/index-AbC123.js', isEntry: true },
+      'src/features/walks/components/walk-runner-page.tsx': { file: 'assets/walk-runner-page-R1.js', imports: ['index.html', '_units-U1.js'] },
+      '_units-U1.js': { file: 'assets/units-U1.js' },
+      'src/app/routes/home.tsx': { file: 'assets/home-H1.js', imports: ['index.html', '_units-U1.js'] },
+    }),
+  );
   writeFileSync(join(dir, 'assets', 'index-AbC123.js'), `console.log(${JSON.stringify('x'.repeat(4000))});`);
   writeFileSync(join(dir, 'sw.js'), 'self.addEventListener("fetch", () => {});');
   writeFileSync(join(dir, 'manifest.webmanifest'), '{"name":"Beadpath"}');
@@ -63,5 +74,31 @@ describe('serving the built client', () => {
       expect(res.headers['cache-control'], path).toMatch(/no-cache/);
     }
     expect((await request(app).get('/walks/12')).text).toContain('<div id="root">');
+  });
+
+  it("when a signed-in phone opens a walk, then the page names the walk, the session check and the runner's code to fetch at once", async () => {
+    const res = await request(app).get('/walks/12').set('Cookie', 'beadpath.sid=s%3Aanything');
+    expect(res.headers['cache-control']).toMatch(/private/);
+    const head = res.text.slice(0, res.text.indexOf('</head>'));
+    expect(head).toContain('<link rel="preload" as="fetch" crossorigin href="/api/auth/me">');
+    expect(head).toContain('<link rel="preload" as="fetch" crossorigin href="/api/walks/12">');
+    expect(head).toContain('<link rel="modulepreload" crossorigin href="/assets/walk-runner-page-R1.js">');
+    expect(head).toContain('<link rel="modulepreload" crossorigin href="/assets/units-U1.js">');
+    // The entry is already in the page as its script; no hint names it again.
+    expect(head).not.toContain('index-AbC123.js');
+    const home = (await request(app).get('/').set('Cookie', 'beadpath.sid=s%3Aanything')).text;
+    expect(home).toContain('href="/assets/home-H1.js"');
+    expect(home).not.toContain('/api/walks/');
+  });
+
+  it('when the page is asked for without a session cookie, or for an address that is not a walk, then it carries no walk hints', async () => {
+    const anonymous = (await request(app).get('/walks/12')).text;
+    expect(anonymous).not.toContain('preload');
+    const other = (await request(app).get('/walks/12/summary').set('Cookie', 'beadpath.sid=s%3Aanything')).text;
+    expect(other).toContain('href="/api/auth/me"');
+    expect(other).not.toContain('/api/walks/');
+    expect(other).not.toContain('modulepreload');
+    const odd = (await request(app).get('/walks/12%22%3E%3Cscript%3E').set('Cookie', 'beadpath.sid=s%3Aanything')).text;
+    expect(odd).not.toContain('<script>');
   });
 });

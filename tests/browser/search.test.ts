@@ -45,6 +45,16 @@ describe('searching in the browser', () => {
     await page.keyboard.press('Enter');
     await page.waitForURL(/\/search\?q=loupe/);
     await page.getByRole('link', { name: 'Reading a worn seat under a loupe' }).waitFor();
+
+    // Pressed the moment the page is drawn, before the box's own code has loaded: nothing typed is lost.
+    await page.goto('/help');
+    await page.getByRole('link', { name: 'Beadpath home' }).waitFor();
+    const early = await page.evaluate(() => !document.querySelector('input[type="search"]'));
+    await page.keyboard.press('/');
+    await page.keyboard.type('loupe', { delay: 5 });
+    console.info(`"/" pressed ${early ? 'before' : 'after'} the search box had loaded`);
+    await expect(page.locator('header input[type="search"]').inputValue()).resolves.toBe('loupe');
+    await page.getByRole('region', { name: 'Articles' }).waitFor();
     expect(problems).toEqual([]);
     await context.close();
   });

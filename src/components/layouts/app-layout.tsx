@@ -9,9 +9,11 @@ import { Icon, Wordmark } from '@/components/ui/icons';
 import { LoadingBlock, Toaster } from '@/components/ui/feedback';
 import { lazyPage } from '@/app/lazy-page';
 import { useOnline } from '@/lib/use-online';
+import { useAfterFirstView } from '@/lib/use-after-first-view';
+import { listenForEarlySearch } from '@/lib/search-shortcut';
 
-// The search box and its results list load after the frame, keeping them out of every page's
-// first download; the placeholder holds its place so the header does not shift.
+// The search box and its results list load once the page's first view is up, keeping them out of
+// every page's first download; the placeholder holds its place so the header does not shift.
 const HeaderSearch = lazyPage(() => import('@/features/search/components/header-search'), 'HeaderSearch');
 
 // More entries than this go under "More" so the header fits a laptop screen.
@@ -24,6 +26,11 @@ export function AppLayout() {
   const logout = useLogout();
   const [menuOpen, setMenuOpen] = useState(false);
   const online = useOnline();
+  const afterFirstView = useAfterFirstView();
+  // "/" before the search box has loaded loads it at once; what follows is handed over.
+  const [searchWanted, setSearchWanted] = useState(false);
+  const showSearch = afterFirstView || searchWanted;
+  useEffect(() => listenForEarlySearch(() => setSearchWanted(true)), []);
   useEffect(() => setMenuOpen(false), [location.pathname]);
 
   if (isPending) {
@@ -71,9 +78,13 @@ export function AppLayout() {
             ) : null}
           </nav>
           {can(me.user.roles, 'search:use') ? (
-            <Suspense fallback={<div className="min-h-11 min-w-0 flex-1 md:w-11 md:flex-none" />}>
-              <HeaderSearch />
-            </Suspense>
+            showSearch ? (
+              <Suspense fallback={<div className="min-h-11 min-w-0 flex-1 md:w-11 md:flex-none" />}>
+                <HeaderSearch />
+              </Suspense>
+            ) : (
+              <div className="min-h-11 min-w-0 flex-1 md:w-11 md:flex-none" />
+            )
           ) : null}
           <div className="ml-auto hidden items-center gap-2 md:flex">
             <NavLink to={paths.account} className={link}>

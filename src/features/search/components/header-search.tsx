@@ -1,18 +1,14 @@
 // The search box in every page's header: "/" focuses it, results appear as you type, Enter opens
 // the full results page.
-import { useEffect, useId, useRef, useState } from 'react';
+import { useEffect, useId, useLayoutEffect, useRef, useState } from 'react';
 import { useLocation, useNavigate } from 'react-router';
 import { paths } from '@/lib/paths';
+import { isSearchShortcut, searchBoxArrived } from '@/lib/search-shortcut';
 import { errorMessage } from '@/lib/api-client';
 import { Icon } from '@/components/ui/icons';
 import { useSearch } from '../api/search';
 import { useDebouncedValue } from '../hooks/use-debounced-value';
 import { CorrectedNote, GroupedResults, NothingFound } from './search-results';
-
-function typingInAField(target: EventTarget | null) {
-  const el = target as HTMLElement | null;
-  return Boolean(el?.closest?.('input, textarea, select, [contenteditable=""], [contenteditable="true"]'));
-}
 
 export function HeaderSearch() {
   const [text, setText] = useState('');
@@ -25,9 +21,20 @@ export function HeaderSearch() {
   const q = useDebouncedValue(text.trim(), 200);
   const results = useSearch({ q, limit: 8 }, open);
 
+  // A "/" pressed while this box was still loading, and what was typed after it.
+  useLayoutEffect(() => {
+    const { typed, gone } = searchBoxArrived();
+    if (typed !== null) {
+      setText(typed);
+      setOpen(true);
+      input.current?.focus();
+    }
+    return gone;
+  }, []);
+
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
-      if (e.key !== '/' || e.ctrlKey || e.metaKey || e.altKey || typingInAField(e.target)) return;
+      if (!isSearchShortcut(e)) return;
       e.preventDefault();
       input.current?.focus();
       setOpen(true);
@@ -36,7 +43,14 @@ export function HeaderSearch() {
     return () => window.removeEventListener('keydown', onKey);
   }, []);
 
-  useEffect(() => setOpen(false), [location.pathname, location.search]);
+  // Moving to another page closes the results (not the box's first render, which may open them).
+  const shownAt = useRef(location.pathname + location.search);
+  useEffect(() => {
+    const at = location.pathname + location.search;
+    if (shownAt.current === at) return;
+    shownAt.current = at;
+    setOpen(false);
+  }, [location.pathname, location.search]);
 
   useEffect(() => {
     if (!open) return;
