@@ -1,7 +1,7 @@
 // The search module's own tables: documents and their vectors, the vocabulary for typo tolerance,
 // synonyms, the sync queue and its watermark. Source tables are only ever read.
-import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
+import { preparedQuery as prepared } from '../../db/prepared';
 import { DEFAULT_SYNONYMS, type SearchEngineName, type SearchKind } from '../../../src/shared/schemas/search';
 import { MARK_CLOSE, MARK_OPEN, type SearchSource } from './search.documents';
 
@@ -42,28 +42,6 @@ export interface PgHitRow {
   snippet: string;
   guides_first: boolean;
   total: number;
-}
-
-interface PgConnection {
-  query(q: { name: string; text: string; values: unknown[] }): Promise<{ rows: any[] }>;
-}
-
-/**
- * Runs a statement as a named prepared statement on one of the pool's connections: the search
- * query is planned once per connection instead of on every keystroke. Knex's own raw() cannot
- * name statements; the name is derived from the text, so each filter variant gets its own.
- */
-async function prepared(db: Knex, sql: string, bindings: unknown[]): Promise<{ rows: any[] }> {
-  let n = 0;
-  const text = sql.replace(/\?/g, () => `$${++n}`);
-  const name = `bp_search_${createHash('sha1').update(text).digest('hex').slice(0, 16)}`;
-  const client = db.client as { acquireConnection(): Promise<PgConnection>; releaseConnection(c: PgConnection): Promise<void> };
-  const conn = await client.acquireConnection();
-  try {
-    return await conn.query({ name, text, values: bindings });
-  } finally {
-    await client.releaseConnection(conn);
-  }
 }
 
 function filterSql(f: SearchFilters, bindings: Knex.Value[]): string {

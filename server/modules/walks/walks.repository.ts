@@ -1,6 +1,7 @@
 // Walks, their answer log, notes and flags, and the guide versions they pin, as plain typed
 // objects. Guides are read from their tables directly so walks do not depend on the guides module.
 import type { Knex } from 'knex';
+import { preparedQuery } from '../../db/prepared';
 import type { GuideContent } from '../../../src/shared/guides/schema';
 import type { WalkAnswerRecord, WalkEndKind, WalkFlagView, WalkMeta, WalkStatus } from '../../../src/shared/schemas/walks';
 import type { FindingOutcome, WalkAnswer } from '../../../src/shared/walks/answers';
@@ -141,6 +142,59 @@ function patchColumns(db: Knex, patch: WalkPatch): Record<string, unknown> {
   return set;
 }
 
+/** The same assignments as patchColumns, as SQL with `?` placeholders for a raw statement. */
+function patchAssignments(patch: WalkPatch): { sql: string; values: unknown[] } {
+  const parts = ['updated_at = current_timestamp'];
+  const values: unknown[] = [];
+  const put = (column: string, value: unknown) => {
+    if (value === undefined) return;
+    parts.push(`${column} = ?`);
+    values.push(value);
+  };
+  put('status', patch.status);
+  put('current_step_id', patch.currentStepId);
+  put('ended_at_step_id', patch.endedAtStepId);
+  put('end_kind', patch.endKind);
+  put('outcome', patch.outcome);
+  put('cause_code', patch.causeCode);
+  put('outcome_note', patch.outcomeNote);
+  put('answer_count', patch.answerCount);
+  if (patch.ended) parts.push('ended_at = current_timestamp');
+  return { sql: parts.join(', '), values };
+}
+
+// Named columns rather than *, so a prepared statement keeps its result shape when a migration
+// adds a column while servers are running.
+const WALK_FIELDS = [
+  'id',
+  'organisation_id',
+  'guide_id',
+  'guide_version_id',
+  'user_id',
+  'site',
+  'line',
+  'applicator',
+  'applicator_id',
+  'status',
+  'current_step_id',
+  'ended_at_step_id',
+  'end_kind',
+  'outcome',
+  'cause_code',
+  'outcome_note',
+  'answer_count',
+  'started_at',
+  'updated_at',
+  'ended_at',
+] as const satisfies readonly (keyof WalkRow)[];
+
+const FIND_WITH_LOG_SQL = `
+  select ${WALK_FIELDS.map((f) => `w.${f}`).join(', ')}, u.name as user_name,
+         (select coalesce(json_agg(json_build_object('seq', a.seq, 'id', a.client_id, 'kind', a.kind, 'stepId', a.step_id, 'payload', a.payload) order by a.seq), '[]'::json)
+            from walk_answers a where a.walk_id = w.id) as log
+    from walks w left join users u on u.id = w.user_id
+   where w.id = ? and w.organisation_id = ?`;
+
 /** One stored entry of a walk's log with its place in it. */
 export interface LoggedAnswer {
   seq: number;
@@ -269,18 +323,9 @@ export const walksRepository = {
    * log is then returned only when its length equals the row's answer_count, else null (read it again).
    */
   async findWithLog(db: Knex, organisationId: number, id: number, opts: { lock?: boolean } = {}): Promise<{ walk: WalkRecord; log: LoggedAnswer[] | null } | undefined> {
-    const q = db('walks as w')
-      .leftJoin('users as u', 'u.id', 'w.user_id')
-      .where({ 'w.id': id, 'w.organisation_id': organisationId })
-      .first(
-        ...WALK_COLUMNS,
-        db.raw(
-          `(select coalesce(json_agg(json_build_object('seq', a.seq, 'id', a.client_id, 'kind', a.kind, 'stepId', a.step_id, 'payload', a.payload) order by a.seq), '[]'::json)
-            from walk_answers a where a.walk_id = w.id) as log`,
-        ),
-      );
-    if (opts.lock) q.forUpdate('w');
-    const row = (await q) as (WalkRow & { log: { seq: number; id: string; kind: string; stepId: string; payload: WalkAnswer }[] }) | undefined;
+    // A prepared statement: answering a step reads this on every answer.
+    const { rows } = await preparedQuery(db, opts.lock ? `${FIND_WITH_LOG_SQL} for update of w` : FIND_WITH_LOG_SQL, [id, organisationId]);
+    const row = rows[0] as (WalkRow & { log: { seq: number; id: string; kind: string; stepId: string; payload: WalkAnswer }[] }) | undefined;
     if (!row) return undefined;
     const walk = toWalk(row);
     if (row.log.length !== row.answer_count) return { walk, log: null };
@@ -293,13 +338,18 @@ export const walksRepository = {
    * the walk as it now stands, or undefined when it had moved meanwhile and nothing was written.
    */
   async appendAnswer(db: Knex, walk: WalkRecord, seq: number, entry: WalkAnswer, patch: WalkPatch): Promise<WalkRecord | undefined> {
-    const moved = db('walks').where({ id: walk.id, answer_count: walk.answerCount, status: walk.status }).update(patchColumns(db, patch)).returning('*');
-    const added = db.raw(
-      `insert into walk_answers (walk_id, seq, client_id, kind, step_id, payload, answered_at)
-       select id, ?, ?, ?, ?, ?::jsonb, ?::timestamptz from moved`,
-      [seq, entry.id, entry.kind, entry.stepId, JSON.stringify(entry), entry.answeredAt],
-    );
-    const [row] = (await db.with('moved', moved).with('added', added).select('*').from('moved')) as WalkRow[];
+    // The statement's text depends only on which fields the patch sets (a few variants), so each
+    // variant is prepared once per connection.
+    const set = patchAssignments(patch);
+    const sql = `with moved as (
+        update walks set ${set.sql} where id = ? and answer_count = ? and status = ? returning ${WALK_FIELDS.join(', ')}
+      ), added as (
+        insert into walk_answers (walk_id, seq, client_id, kind, step_id, payload, answered_at)
+        select id, ?, ?, ?, ?, ?::jsonb, ?::timestamptz from moved
+      )
+      select * from moved`;
+    const { rows } = await preparedQuery(db, sql, [...set.values, walk.id, walk.answerCount, walk.status, seq, entry.id, entry.kind, entry.stepId, JSON.stringify(entry), entry.answeredAt]);
+    const row = rows[0] as WalkRow | undefined;
     return row ? toWalk({ ...row, user_name: walk.userName }) : undefined;
   },
 
