@@ -117,7 +117,10 @@ async function phase(base: string, label: string, seconds: number, request: obje
 }
 
 async function main() {
-  const cluster = await ensureCluster({ name: 'pg-test', durable: false, log: () => {} });
+  // Answers must be stored durably, so the bench runs on a cluster of its own with fsync and
+  // synchronous commit on (the tests' cluster runs without them, for speed): every acknowledged
+  // answer has reached the disk's write-ahead log before the technician's phone is told it is saved.
+  const cluster = await ensureCluster({ name: 'pg-bench', durable: true, log: () => {} });
   const dbName = `bench_load_${randomBytes(4).toString('hex')}`;
   ensureDatabase(cluster, dbName);
   const dbUrl = cluster.urlFor(dbName);
@@ -259,6 +262,10 @@ async function main() {
         .returning(['id', 'user_id'])) as { id: number; user_id: number }[];
       for (const w of made) walksOf.set(w.user_id, (walksOf.get(w.user_id) ?? []).concat(w.id));
     }
+    // The planner's statistics as autovacuum keeps them on a running system: without this it would
+    // still plan for the nearly empty walks table of a minute ago (and pick a poor index for the
+    // answer's guarded update) until autovacuum's next round, in the middle of the phase.
+    await db.raw('analyze walks, walk_answers');
     // autocannon clears a connection's context after every request of the list, so each walk's
     // progress lives in a cursor taken from a free list for the request and put back with its answer.
     type Cursor = { cookie: string; walks: number[]; walkId?: number; stepId?: string; cautions: string[]; depth: number };
@@ -357,7 +364,9 @@ async function main() {
     // The app must be gone before its database is dropped, or its last in-flight queries log errors.
     if (app && app.exitCode === null) await new Promise((r) => (app!.once('exit', r), app!.kill()));
     await db.destroy();
-    dropDatabase(cluster, dbName);
+    // BENCH_KEEP_DB=1 leaves the database for a look afterwards (its name is printed).
+    if (process.env.BENCH_KEEP_DB === '1') console.log(`kept database ${dbName} in ${cluster.root}`);
+    else dropDatabase(cluster, dbName);
   }
 }
 
