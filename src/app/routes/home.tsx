@@ -1,5 +1,5 @@
 // Home: what each role does next. Composes features; each role's home grows as features land.
-import { useState } from 'react';
+import { useState, type ReactNode } from 'react';
 import { Link } from 'react-router';
 import type { Role } from '@/shared/permissions';
 import { activeRole, setActiveRole, useMe } from '@/lib/auth';
@@ -7,6 +7,10 @@ import { paths } from '@/lib/paths';
 import { RoleSwitcher } from '@/features/home/components/role-switcher';
 import { CalculatorTiles } from '@/features/calculators/components/calculator-tiles';
 import { Card } from '@/components/ui/page';
+import { Skeleton } from '@/components/ui/feedback';
+import { useGuides } from '@/features/guides/api/guides';
+import { useWalks } from '@/features/walks/api/walks';
+import { useArticles } from '@/features/articles/api/articles';
 import { Icon } from '@/components/ui/icons';
 import { ButtonLink } from '@/components/ui/button';
 import { ArticleShortList } from '@/features/articles/components/article-short-list';
@@ -76,19 +80,61 @@ export function HomeRoute() {
         </div>
       ) : null}
       {current === 'technician' || current === 'support' ? (
-        <div className="space-y-6">
-          <SymptomSearch />
-          <SymptomChips />
-          {current === 'technician' ? <OpenWalks /> : null}
-        </div>
-      ) : null}
-      {current === 'technician' || current === 'support' ? <ArticleShortList title="Newest articles" filters={{}} empty="No article has been published yet." limit={4} /> : null}
-      <section aria-labelledby="calc-heading">
-        <h2 id="calc-heading" className="mb-3 text-xl font-semibold">
-          Calculators
-        </h2>
-        <CalculatorTiles role={current} />
-      </section>
+        <FieldHome withOpenWalks={current === 'technician'}>
+          <CalculatorsSection role={current} />
+        </FieldHome>
+      ) : (
+        <CalculatorsSection role={current} />
+      )}
     </div>
+  );
+}
+
+function CalculatorsSection({ role }: { role: Role }) {
+  return (
+    <section aria-labelledby="calc-heading">
+      <h2 id="calc-heading" className="mb-3 text-xl font-semibold">
+        Calculators
+      </h2>
+      <CalculatorTiles role={role} />
+    </section>
+  );
+}
+
+/**
+ * The field home (symptoms, open walks, newest articles, calculators) appears in one piece once
+ * the lists that size it have arrived: drawn piece by piece, the chips and the open walks pushed
+ * everything under them down the phone's screen as they came in.
+ */
+function FieldHome({ withOpenWalks, children }: { withOpenWalks: boolean; children: ReactNode }) {
+  const guides = useGuides({});
+  const walks = useWalks({ mine: '1', status: 'open' }, { enabled: withOpenWalks });
+  const articles = useArticles({});
+  const loading = guides.isPending || (withOpenWalks && walks.isPending) || articles.isPending;
+  // The search box keeps its place (and what is typed in it) while the lists arrive.
+  return (
+    <>
+      <div className="space-y-6">
+        <SymptomSearch />
+        {loading ? (
+          <div className="min-h-dvh space-y-6" role="status">
+            <span className="sr-only">Loading the symptoms and your open walks…</span>
+            <Skeleton className="h-48 w-full" />
+            <Skeleton className="h-32 w-full" />
+          </div>
+        ) : (
+          <>
+            <SymptomChips />
+            {withOpenWalks ? <OpenWalks /> : null}
+          </>
+        )}
+      </div>
+      {loading ? null : (
+        <>
+          <ArticleShortList title="Newest articles" filters={{}} empty="No article has been published yet." limit={4} />
+          {children}
+        </>
+      )}
+    </>
   );
 }

@@ -1,6 +1,6 @@
 // Calculators as large tiles, the ones a role reaches for most first.
 import { Link } from 'react-router';
-import { listCalculators } from '@/shared/calculators';
+import { listCalculators } from '@/shared/calculators/registry';
 import type { Role } from '@/shared/permissions';
 import { paths } from '@/lib/paths';
 import { Icon } from '@/components/ui/icons';

@@ -1,5 +1,6 @@
 // Small pieces every case page uses: status and priority badges, ages in words, places and callers.
-import { CASE_PRIORITY_LABELS, CASE_STATUS_LABELS, type CaseListItem, type CasePriority, type CaseStatus } from '@/shared/schemas/cases';
+import { CASE_PRIORITY_LABELS, CASE_STATUS_LABELS, type CasePriority, type CaseStatus } from '@/shared/case-states';
+import type { CaseListItem } from '@/shared/schemas/cases';
 import { formatDateTime } from '@/lib/format';
 
 // Colour is never the only signal: every badge carries its word.

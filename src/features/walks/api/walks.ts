@@ -13,9 +13,9 @@ export const walkKeys = {
   summary: (id: number) => [...walkKeys.all, 'summary', id] as const,
 };
 
-export function useWalks(f: { mine?: '1'; status?: string; guideId?: string }) {
+export function useWalks(f: { mine?: '1'; status?: string; guideId?: string }, opts: { enabled?: boolean } = {}) {
   const p = new URLSearchParams(Object.entries(f).filter(([, v]) => v) as [string, string][]);
-  return useQuery({ queryKey: walkKeys.list(f as Record<string, string>), queryFn: () => api<{ walks: WalkListItem[] }>(`/api/walks?${p}`).then((r) => r.walks) });
+  return useQuery({ queryKey: walkKeys.list(f as Record<string, string>), queryFn: () => api<{ walks: WalkListItem[] }>(`/api/walks?${p}`).then((r) => r.walks), enabled: opts.enabled ?? true });
 }
 
 export function useWalk(id: number, opts: { poll?: boolean } = {}) {
