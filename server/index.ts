@@ -1,5 +1,6 @@
 // Production entry point: config -> database -> listen -> graceful shutdown.
 import { createServer } from 'node:http';
+import type { Knex } from 'knex';
 import { readFileSync } from 'node:fs';
 import { createApp } from './app';
 import { loadConfig, ConfigError } from './config/env';
@@ -63,6 +64,9 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env) {
     clearTimeout(timer);
     await vite?.close();
     await app.locals.close();
+    // A request whose client hung up is still finishing its work after the server has closed:
+    // let its statements end rather than abort them under it (at most a few seconds).
+    await poolDrained(db, 5_000);
     await db.destroy();
     logger.info('stopped');
   }
@@ -79,4 +83,11 @@ if (isMain) {
       console.error(err instanceof ConfigError ? err.message : err);
       process.exit(1);
     });
+}
+
+/** Resolves once no pooled connection is in use or awaited, or after `ms`. */
+async function poolDrained(db: Knex, ms: number): Promise<void> {
+  const pool = (db.client as { pool?: { numUsed(): number; numPendingAcquires(): number } }).pool;
+  const until = Date.now() + ms;
+  while (pool && pool.numUsed() + pool.numPendingAcquires() > 0 && Date.now() < until) await new Promise((r) => setTimeout(r, 25));
 }
