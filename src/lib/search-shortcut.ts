@@ -12,7 +12,10 @@ export function typingInAField(target: EventTarget | null): boolean {
   return Boolean(el?.closest?.('input, textarea, select, [contenteditable=""], [contenteditable="true"]'));
 }
 
-let early: { typed: string } | null = null;
+/** Keystrokes after an early "/" are held for the box this long at most (it may never come, offline). */
+const HOLD_MS = 3000;
+
+let early: { typed: string; at: number } | null = null;
 let boxThere = false;
 
 /**
@@ -25,8 +28,12 @@ export function listenForEarlySearch(wanted: () => void): () => void {
     if (!early) {
       if (!isSearchShortcut(e)) return;
       e.preventDefault();
-      early = { typed: '' };
+      early = { typed: '', at: Date.now() };
       wanted();
+      return;
+    }
+    if (e.key === 'Escape' || Date.now() - early.at > HOLD_MS) {
+      early = null;
       return;
     }
     if (typingInAField(e.target) || e.ctrlKey || e.metaKey || e.altKey) return;

@@ -30,7 +30,8 @@ export function AppLayout() {
   // "/" before the search box has loaded loads it at once; what follows is handed over.
   const [searchWanted, setSearchWanted] = useState(false);
   const showSearch = afterFirstView || searchWanted;
-  useEffect(() => listenForEarlySearch(() => setSearchWanted(true)), []);
+  const canSearch = Boolean(me && can(me.user.roles, 'search:use'));
+  useEffect(() => (canSearch ? listenForEarlySearch(() => setSearchWanted(true)) : undefined), [canSearch]);
   useEffect(() => setMenuOpen(false), [location.pathname]);
 
   if (isPending) {
