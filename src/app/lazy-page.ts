@@ -1,6 +1,6 @@
 // Route-level code splitting: a page module loads when its route is first opened, so a phone
 // on poor signal downloads the editors, charts and tables only when someone needs them.
-import { createElement, lazy, type ComponentProps, type ComponentType, type FunctionComponent } from 'react';
+import { createElement, lazy, useRef, type ComponentProps, type ComponentType, type FunctionComponent } from 'react';
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 export type LazyPage<C extends ComponentType<any>> = FunctionComponent<ComponentProps<C>> & {
@@ -31,7 +31,12 @@ export function lazyPage<K extends string, M extends Record<K, ComponentType<any
     return loading;
   };
   const Lazy = lazy(() => start().then((m) => ({ default: m[name] })));
-  const Page = ((props: ComponentProps<M[K]>) => createElement(loaded ?? Lazy, props)) as LazyPage<M[K]>;
+  const Page = ((props: ComponentProps<M[K]>) => {
+    // Chosen once per mounted page: switching from the lazy wrapper to the loaded component later
+    // would remount the page and lose what was typed in it.
+    const component = useRef(loaded ?? Lazy).current;
+    return createElement(component, props);
+  }) as LazyPage<M[K]>;
   Page.displayName = `LazyPage(${name})`;
   Page.preload = start;
   return Page;

@@ -11,9 +11,9 @@ const press = (key: string, target: EventTarget = window) => {
 };
 
 let stop: () => void;
-let wanted: ReturnType<typeof vi.fn>;
+let wanted: ReturnType<typeof vi.fn<() => void>>;
 beforeEach(() => {
-  wanted = vi.fn();
+  wanted = vi.fn<() => void>();
   stop = listenForEarlySearch(wanted);
 });
 afterEach(() => {
