@@ -116,10 +116,17 @@ async function visit(v: Visit) {
   });
   await page.goto(v.path);
   const shows = v.shows ?? [HEAD];
-  try {
-    await (v.ready ? v.ready(page) : page.getByText(HEAD, { exact: false }).first().waitFor({ timeout: 15_000 }));
-  } catch {
-    findings.push(`${v.path} as ${v.who}: the stored text never appeared`);
+  // On a machine busy with other test files a page now and then has not shown its text in time:
+  // it gets one reload and a longer wait before that counts as a finding.
+  const appeared = (timeout: number) =>
+    (v.ready ? v.ready(page) : page.getByText(HEAD, { exact: false }).first().waitFor({ timeout })).then(
+      () => true,
+      () => false,
+    );
+  if (!(await appeared(20_000))) {
+    await page.reload();
+    if (await appeared(40_000)) console.info(`${v.path} as ${v.who}: the stored text appeared only after a reload`);
+    else findings.push(`${v.path} as ${v.who}: the stored text never appeared`);
   }
   // Hover over whatever shows a payload, in case a handler slipped through.
   for (const el of (await page.getByText('Zq<img', { exact: false }).all()).slice(0, 25)) await el.hover({ timeout: 500 }).catch(() => undefined);
@@ -300,5 +307,5 @@ describe('plain text with script vectors', () => {
 
     expect(visited).toHaveLength(visits.length);
     expect(findings).toEqual([]);
-  }, 240_000);
+  }, 420_000);
 });
