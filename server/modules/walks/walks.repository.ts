@@ -128,37 +128,35 @@ function toNote(r: { id: number; client_id: string; step_id: string; text: strin
   };
 }
 
+/** The walk's columns a patch may set, each with its field. */
+const PATCH_COLUMNS = [
+  ['status', 'status'],
+  ['currentStepId', 'current_step_id'],
+  ['endedAtStepId', 'ended_at_step_id'],
+  ['endKind', 'end_kind'],
+  ['outcome', 'outcome'],
+  ['causeCode', 'cause_code'],
+  ['outcomeNote', 'outcome_note'],
+  ['answerCount', 'answer_count'],
+] as const satisfies readonly (readonly [Exclude<keyof WalkPatch, 'ended'>, keyof WalkRow])[];
+
+/** The columns a patch sets (fields left undefined are left alone), for Knex's update(). */
 function patchColumns(db: Knex, patch: WalkPatch): Record<string, unknown> {
   const set: Record<string, unknown> = { updated_at: db.fn.now() };
-  if (patch.status !== undefined) set.status = patch.status;
-  if (patch.currentStepId !== undefined) set.current_step_id = patch.currentStepId;
-  if (patch.endedAtStepId !== undefined) set.ended_at_step_id = patch.endedAtStepId;
-  if (patch.endKind !== undefined) set.end_kind = patch.endKind;
-  if (patch.outcome !== undefined) set.outcome = patch.outcome;
-  if (patch.causeCode !== undefined) set.cause_code = patch.causeCode;
-  if (patch.outcomeNote !== undefined) set.outcome_note = patch.outcomeNote;
-  if (patch.answerCount !== undefined) set.answer_count = patch.answerCount;
+  for (const [field, column] of PATCH_COLUMNS) if (patch[field] !== undefined) set[column] = patch[field];
   if (patch.ended) set.ended_at = db.fn.now();
   return set;
 }
 
-/** The same assignments as patchColumns, as SQL with `?` placeholders for a raw statement. */
+/** The same assignments as SQL with `?` placeholders, for a raw (prepared) statement. */
 function patchAssignments(patch: WalkPatch): { sql: string; values: unknown[] } {
   const parts = ['updated_at = current_timestamp'];
   const values: unknown[] = [];
-  const put = (column: string, value: unknown) => {
-    if (value === undefined) return;
+  for (const [field, column] of PATCH_COLUMNS) {
+    if (patch[field] === undefined) continue;
     parts.push(`${column} = ?`);
-    values.push(value);
-  };
-  put('status', patch.status);
-  put('current_step_id', patch.currentStepId);
-  put('ended_at_step_id', patch.endedAtStepId);
-  put('end_kind', patch.endKind);
-  put('outcome', patch.outcome);
-  put('cause_code', patch.causeCode);
-  put('outcome_note', patch.outcomeNote);
-  put('answer_count', patch.answerCount);
+    values.push(patch[field]);
+  }
   if (patch.ended) parts.push('ended_at = current_timestamp');
   return { sql: parts.join(', '), values };
 }
