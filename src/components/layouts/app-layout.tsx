@@ -16,6 +16,9 @@ import { listenForEarlySearch } from '@/lib/search-shortcut';
 // every page's first download; the placeholder holds its place so the header does not shift.
 const HeaderSearch = lazyPage(() => import('@/features/search/components/header-search'), 'HeaderSearch');
 
+// Holds the search box's place until it has loaded, so the header does not shift.
+const SEARCH_PLACEHOLDER = <div className="min-h-11 min-w-0 flex-1 md:w-11 md:flex-none" />;
+
 // More entries than this go under "More" so the header fits a laptop screen.
 const INLINE_ITEMS = 5;
 
@@ -78,13 +81,13 @@ export function AppLayout() {
               </details>
             ) : null}
           </nav>
-          {can(me.user.roles, 'search:use') ? (
+          {canSearch ? (
             showSearch ? (
-              <Suspense fallback={<div className="min-h-11 min-w-0 flex-1 md:w-11 md:flex-none" />}>
+              <Suspense fallback={SEARCH_PLACEHOLDER}>
                 <HeaderSearch />
               </Suspense>
             ) : (
-              <div className="min-h-11 min-w-0 flex-1 md:w-11 md:flex-none" />
+              SEARCH_PLACEHOLDER
             )
           ) : null}
           <div className="ml-auto hidden items-center gap-2 md:flex">
