@@ -10,10 +10,10 @@ import type { ChildProcess } from 'node:child_process';
 import { randomBytes, randomUUID } from 'node:crypto';
 import autocannon from 'autocannon';
 import { register } from 'tsx/esm/api';
-import { SAMPLE_GUIDE, SAMPLE_GUIDE_META } from '../src/shared/guides/sample';
+import { SAMPLE_GUIDE } from '../src/shared/guides/sample';
 import { createDb, migrateLatest } from '../server/db/knex';
-import { hashPassword } from '../server/lib/passwords';
 import { dropDatabase, ensureCluster, ensureDatabase } from '../scripts/lib/cluster';
+import { seedTechnicians } from '../scripts/lib/seed-technicians';
 import { startServerProcess } from '../scripts/lib/server-process';
 
 register();
@@ -128,25 +128,11 @@ async function main() {
   let app: ChildProcess | null = null;
   try {
     await migrateLatest(db);
-    const [org] = await db('organisations').insert({ name: 'Load works' }).returning('id');
-    const hash = await hashPassword(PASSWORD);
-    const emails = Array.from({ length: TECHS }, (_, i) => `tech${i}@load.invalid`);
-    await db('users').insert(emails.map((email, i) => ({ organisation_id: org.id, email, name: `Technician ${i}`, roles: ['technician'], password_hash: hash })));
-    const [guide] = await db('guides').insert({ organisation_id: org.id, status: 'active' }).returning('id');
-    const [version] = await db('guide_versions')
-      .insert({
-        guide_id: guide.id,
-        number: 1,
-        state: 'published',
-        title: SAMPLE_GUIDE_META.title,
-        symptom: SAMPLE_GUIDE_META.symptom,
-        summary: SAMPLE_GUIDE_META.summary ?? '',
-        tags: SAMPLE_GUIDE_META.tags,
-        content: JSON.stringify(SAMPLE_GUIDE),
-        published_at: db.fn.now(),
-      })
-      .returning('id');
-    await db('guides').where({ id: guide.id }).update({ published_version_id: version.id });
+    const seeded = await seedTechnicians(db, TECHS, 'load', PASSWORD);
+    const { emails } = seeded;
+    const org = { id: seeded.organisationId };
+    const guide = { id: seeded.guideId };
+    const version = { id: seeded.versionId };
 
     // The app reaches PostgreSQL as `npm start` does: through the cluster's Unix socket when it can
     // (BENCH_PG_TCP=1 forces loopback TCP).

@@ -12,15 +12,15 @@
 import { randomBytes, randomUUID } from 'node:crypto';
 import { SMTPServer } from 'smtp-server';
 import { register } from 'tsx/esm/api';
-import { SAMPLE_GUIDE, SAMPLE_GUIDE_META } from '../src/shared/guides/sample';
+import { SAMPLE_GUIDE } from '../src/shared/guides/sample';
 import type { GuideContent } from '../src/shared/guides/schema';
 import type { WalkAnswer } from '../src/shared/walks/answers';
 import { replayPath } from '../src/shared/walks/walk-path';
 import { createDb, migrateLatest, type Db } from '../server/db/knex';
-import { hashPassword } from '../server/lib/passwords';
 import { startFakeMeili } from '../tests/fakes/meilisearch';
 import { dropDatabase, ensureCluster, ensureDatabase, stopCluster, type Cluster } from './lib/cluster';
 import { freePort, startServerProcess, type ServerProcess } from './lib/server-process';
+import { seedTechnicians } from './lib/seed-technicians';
 
 register();
 const TECHS = Number(process.env.FAULTS_TECHS ?? 20);
@@ -73,29 +73,8 @@ async function freshDatabase(name: string): Promise<{ db: Db; url: string; drop:
 }
 
 /** An organisation with technicians and the sample guide published, written straight to the tables. */
-async function seed(db: Db, techs: number, label: string) {
-  const [org] = await db('organisations')
-    .insert({ name: `${label} works` })
-    .returning('id');
-  const hash = await hashPassword(PASSWORD);
-  const emails = Array.from({ length: techs }, (_, i) => `tech${i}@${label}.invalid`);
-  await db('users').insert(emails.map((email, i) => ({ organisation_id: org.id, email, name: `Technician ${i}`, roles: ['technician'], password_hash: hash })));
-  const [guide] = await db('guides').insert({ organisation_id: org.id, status: 'active' }).returning('id');
-  const [version] = await db('guide_versions')
-    .insert({
-      guide_id: guide.id,
-      number: 1,
-      state: 'published',
-      title: SAMPLE_GUIDE_META.title,
-      symptom: SAMPLE_GUIDE_META.symptom,
-      summary: SAMPLE_GUIDE_META.summary ?? '',
-      tags: SAMPLE_GUIDE_META.tags,
-      content: JSON.stringify(SAMPLE_GUIDE),
-      published_at: db.fn.now(),
-    })
-    .returning('id');
-  await db('guides').where({ id: guide.id }).update({ published_version_id: version.id });
-  return { organisationId: org.id as number, emails, guideId: guide.id as number };
+function seed(db: Db, techs: number, label: string) {
+  return seedTechnicians(db, techs, label, PASSWORD);
 }
 
 // ---- server processes ------------------------------------------------------------------------
